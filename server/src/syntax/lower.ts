@@ -1,0 +1,411 @@
+// Lowers the chevrotain CST to the typed AST (ast.ts). Defensive throughout: nodes recovered
+// after syntax errors may lack children, and lowering then drops the piece instead of throwing.
+// Syntax layer.
+import type { CstElement, CstNode, IToken } from "chevrotain";
+import { diag, type Diagnostic } from "../base/diagnostics";
+import type { Span } from "../base/text";
+import type { BondSpec, Expr, ModelBlock, NameRef, SpwFile, Statement } from "./ast";
+
+type Children = Record<string, CstElement[] | undefined>;
+
+function isToken(e: CstElement): e is IToken {
+  return (e as IToken).image !== undefined;
+}
+
+function validToken(t: IToken | undefined): t is IToken {
+  return t !== undefined && Number.isFinite(t.startOffset) && !t.isInsertedInRecovery;
+}
+
+function tokens(c: Children, name: string): IToken[] {
+  return ((c[name] ?? []) as CstElement[]).filter((e): e is IToken => isToken(e) && validToken(e));
+}
+
+function nodes(c: Children, name: string): CstNode[] {
+  return ((c[name] ?? []) as CstElement[]).filter((e): e is CstNode => !isToken(e));
+}
+
+function tokenSpan(t: IToken): Span {
+  return { start: t.startOffset, end: (t.endOffset ?? t.startOffset) + 1 };
+}
+
+/** The span covered by all real tokens below a node, or null if it has none. */
+function nodeSpan(n: CstNode): Span | null {
+  let start = Infinity;
+  let end = -Infinity;
+  const visit = (node: CstNode): void => {
+    for (const list of Object.values(node.children)) {
+      for (const e of list ?? []) {
+        if (isToken(e)) {
+          if (!validToken(e)) continue;
+          start = Math.min(start, e.startOffset);
+          end = Math.max(end, (e.endOffset ?? e.startOffset) + 1);
+        } else visit(e);
+      }
+    }
+  };
+  visit(n);
+  return Number.isFinite(start) ? { start, end } : null;
+}
+
+function nameRef(t: IToken | undefined): NameRef | undefined {
+  return validToken(t) ? { name: t.image, span: tokenSpan(t) } : undefined;
+}
+
+function byOffset<T extends { span: Span } | IToken>(items: T[]): T[] {
+  const key = (x: T): number => ("span" in x ? x.span.start : x.startOffset);
+  return [...items].sort((a, b) => key(a) - key(b));
+}
+
+export function lowerExpr(n: CstNode | undefined): Expr | undefined {
+  if (!n) return undefined;
+  const c = n.children as Children;
+  const span = nodeSpan(n);
+  if (!span) return undefined;
+  switch (n.name) {
+    case "expr":
+    case "multiplicative": {
+      const operandRule = n.name === "expr" ? "multiplicative" : "unary";
+      const operands = nodes(c, operandRule).map((x) => lowerExpr(x));
+      const ops = byOffset(
+        n.name === "expr" ? [...tokens(c, "Plus"), ...tokens(c, "Minus")] : [...tokens(c, "Star"), ...tokens(c, "Slash")],
+      );
+      let acc = operands[0];
+      for (let i = 1; i < operands.length; i++) {
+        const right = operands[i];
+        const op = ops[i - 1]?.image as "+" | "-" | "*" | "/" | undefined;
+        if (!acc || !right || !op) return acc ? { kind: "missing", span } : undefined;
+        acc = { kind: "binary", span: { start: acc.span.start, end: right.span.end }, op, left: acc, right };
+      }
+      return acc;
+    }
+    case "unary": {
+      const sign = tokens(c, "Minus")[0] ?? tokens(c, "Plus")[0];
+      if (sign) {
+        const operand = lowerExpr(nodes(c, "unary")[0]);
+        if (!operand) return { kind: "missing", span };
+        return { kind: "unary", span, op: sign.image as "-" | "+", operand };
+      }
+      return lowerExpr(nodes(c, "power")[0]);
+    }
+    case "power": {
+      const base = lowerExpr(nodes(c, "primary")[0]);
+      const exponentNode = nodes(c, "unary")[0];
+      if (!exponentNode) return base;
+      const exponent = lowerExpr(exponentNode);
+      if (!base || !exponent) return { kind: "missing", span };
+      return { kind: "binary", span, op: "^", left: base, right: exponent };
+    }
+    case "primary":
+      return lowerPrimary(c, span);
+    default:
+      return { kind: "missing", span };
+  }
+}
+
+function lowerPrimary(c: Children, span: Span): Expr {
+  const numbers = tokens(c, "NumberLiteral");
+  const identifiers = tokens(c, "Identifier");
+  const first = numbers[0];
+  if (first) {
+    const value = Number(first.image);
+    const unitToken = identifiers[0];
+    if (unitToken) {
+      const powerToken = numbers[1];
+      const negative = tokens(c, "Minus").length > 0;
+      const power = powerToken ? (negative ? -1 : 1) * Number(powerToken.image) : 1;
+      const unitEnd = powerToken ? tokenSpan(powerToken).end : tokenSpan(unitToken).end;
+      return {
+        kind: "number",
+        span,
+        value,
+        text: first.image,
+        unit: { name: unitToken.image, power, span: { start: unitToken.startOffset, end: unitEnd } },
+      };
+    }
+    return { kind: "number", span, value, text: first.image };
+  }
+  const exprs = nodes(c, "expr")
+    .map((x) => lowerExpr(x))
+    .filter((x): x is Expr => x !== undefined);
+  if (tokens(c, "LBracket").length > 0) return { kind: "list", span, items: exprs };
+  const ident = identifiers[0];
+  if (ident) {
+    if (tokens(c, "LParen").length > 0) {
+      const args = nodes(c, "argList").flatMap((a) =>
+        nodes(a.children as Children, "expr")
+          .map((x) => lowerExpr(x))
+          .filter((x): x is Expr => x !== undefined),
+      );
+      return { kind: "call", span, callee: { name: ident.image, span: tokenSpan(ident) }, args };
+    }
+    return { kind: "name", span, name: ident.image };
+  }
+  if (tokens(c, "LParen").length > 0) {
+    if (exprs.length === 1 && tokens(c, "Comma").length === 0) {
+      const inner = exprs[0] as Expr;
+      // A parenthesized scalar keeps its own node so that `(1)` can still serve as an offset.
+      return { kind: "tuple", span, items: [inner] };
+    }
+    return { kind: "tuple", span, items: exprs };
+  }
+  return { kind: "missing", span };
+}
+
+function exprOf(c: Children, index = 0): Expr | undefined {
+  return lowerExpr(nodes(c, "expr")[index]);
+}
+
+function lowerBondSpec(n: CstNode): BondSpec | undefined {
+  const c = n.children as Children;
+  const span = nodeSpan(n);
+  if (!span) return undefined;
+  const shellNumber = tokens(c, "NumberLiteral")[0];
+  if (tokens(c, "Kw_shell").length > 0) {
+    if (!shellNumber) return undefined;
+    return { kind: "shell", span, shell: Number(shellNumber.image), shellSpan: tokenSpan(shellNumber) };
+  }
+  const [fromTok, toTok] = tokens(c, "Identifier");
+  const from = nameRef(fromTok);
+  const to = nameRef(toTok);
+  if (!from || !to) return undefined;
+  const offset = lowerExpr(nodes(c, "primary")[0]);
+  return offset ? { kind: "explicit", span, from, to, offset } : { kind: "explicit", span, from, to };
+}
+
+function lowerStatement(n: CstNode, text: string): Statement | undefined {
+  const c = n.children as Children;
+  const span = nodeSpan(n);
+  if (!span) return undefined;
+  const ident = tokens(c, "Identifier");
+  switch (n.name) {
+    case "spinStmt": {
+      const value = exprOf(c);
+      if (!value) return undefined;
+      const sel = nodes(c, "siteSelector")[0];
+      const site = sel ? selectorRef(sel) : undefined;
+      return site ? { kind: "spin", span, site, value } : { kind: "spin", span, value };
+    }
+    case "conventionStmt": {
+      const parts = byOffset([...ident, ...tokens(c, "Minus")]);
+      const first = parts[0];
+      const last = parts[parts.length - 1];
+      if (!first || !last) return undefined;
+      const valueSpan = { start: first.startOffset, end: (last.endOffset ?? last.startOffset) + 1 };
+      return { kind: "convention", span, value: { name: text.slice(valueSpan.start, valueSpan.end), span: valueSpan } };
+    }
+    case "latticeStmt": {
+      if (tokens(c, "LBrace").length > 0) {
+        const vectors = nodes(c, "vectorStmt").flatMap((v) => {
+          const vc = v.children as Children;
+          const name = nameRef(tokens(vc, "Identifier")[0]);
+          const value = exprOf(vc);
+          const vspan = nodeSpan(v);
+          return name && value && vspan ? [{ name, value, span: vspan }] : [];
+        });
+        const sites = nodes(c, "siteStmt").flatMap((s) => {
+          const sc = s.children as Children;
+          const name = nameRef(tokens(sc, "Identifier")[0]);
+          const position = exprOf(sc);
+          const spin = exprOf(sc, 1);
+          const sspan = nodeSpan(s);
+          if (!name || !position || !sspan) return [];
+          return [spin ? { name, position, spin, span: sspan } : { name, position, span: sspan }];
+        });
+        return { kind: "latticeCustom", span, vectors, sites };
+      }
+      const preset = nameRef(ident[0]);
+      if (!preset) return undefined;
+      const siteNames = ident.slice(1).map((t) => nameRef(t) as NameRef);
+      return { kind: "latticePreset", span, preset, siteNames };
+    }
+    case "letStmt": {
+      const name = nameRef(ident[0]);
+      const value = exprOf(c);
+      if (!name) return undefined;
+      return { kind: "let", span, name, value: value ?? { kind: "missing", span: { start: span.end, end: span.end } } };
+    }
+    case "exchangeStmt": {
+      const exchangeKind = nameRef(ident[0]);
+      if (!exchangeKind) return undefined;
+      const argList = nodes(c, "argList")[0];
+      const args = argList
+        ? nodes(argList.children as Children, "expr")
+            .map((x) => lowerExpr(x))
+            .filter((x): x is Expr => x !== undefined)
+        : [];
+      const lp = tokens(c, "LParen")[0];
+      const rp = tokens(c, "RParen")[0];
+      const argsSpan = {
+        start: lp ? lp.startOffset : exchangeKind.span.end,
+        end: rp ? rp.startOffset + 1 : (args[args.length - 1]?.span.end ?? exchangeKind.span.end),
+      };
+      const bonds = nodes(c, "bondSpec")
+        .map(lowerBondSpec)
+        .filter((b): b is BondSpec => b !== undefined);
+      return { kind: "exchange", span, exchangeKind, args, argsSpan, bonds };
+    }
+    case "anisotropyStmt": {
+      const sel = nodes(c, "siteSelector")[0];
+      const site = sel ? selectorRef(sel) : undefined;
+      if (!site) return undefined;
+      const exprNodes = nodes(c, "expr");
+      const axisTok = tokens(c, "Kw_axis")[0];
+      const clauses: { name: NameRef; value: Expr; span: Span }[] = [];
+      let axis: Expr | undefined;
+      // Clause names and the `axis` keyword each precede one expression, in source order.
+      const heads = byOffset([...ident, ...(axisTok ? [axisTok] : [])]);
+      const values = exprNodes.map((x) => lowerExpr(x));
+      heads.forEach((head, k) => {
+        const value = values[k];
+        if (!value) return;
+        if (head === axisTok) axis = value;
+        else clauses.push({ name: { name: head.image, span: tokenSpan(head) }, value, span: { start: head.startOffset, end: value.span.end } });
+      });
+      return axis ? { kind: "anisotropy", span, site, clauses, axis } : { kind: "anisotropy", span, site, clauses };
+    }
+    case "gStmt": {
+      const sel = nodes(c, "siteSelector")[0];
+      const site = sel ? selectorRef(sel) : undefined;
+      const value = exprOf(c);
+      if (!site || !value) return undefined;
+      return { kind: "g", span, site, value };
+    }
+    case "fieldStmt": {
+      const magnitude = exprOf(c);
+      if (!magnitude) return undefined;
+      const exprs = nodes(c, "expr");
+      const hasAlong = tokens(c, "Kw_along").length > 0;
+      let k = 1;
+      const direction = hasAlong ? lowerExpr(exprs[k++]) : undefined;
+      let sweep: { from: Expr; to: Expr; steps?: Expr; span: Span } | undefined;
+      const sweepTok = tokens(c, "Kw_sweep")[0];
+      if (sweepTok) {
+        const from = lowerExpr(exprs[k++]);
+        const to = lowerExpr(exprs[k++]);
+        const steps = tokens(c, "Kw_steps").length > 0 ? lowerExpr(exprs[k++]) : undefined;
+        if (from && to) {
+          const sspan = { start: sweepTok.startOffset, end: (steps ?? to).span.end };
+          sweep = steps ? { from, to, steps, span: sspan } : { from, to, span: sspan };
+        }
+      }
+      return {
+        kind: "field",
+        span,
+        magnitude,
+        ...(direction ? { direction } : {}),
+        ...(sweep ? { sweep } : {}),
+      };
+    }
+    case "clusterStmt": {
+      const size = exprOf(c);
+      if (!size) return undefined;
+      const b = tokens(c, "Kw_periodic")[0] ?? tokens(c, "Kw_open")[0];
+      const boundary = nameRef(b);
+      return boundary ? { kind: "cluster", span, size, boundary } : { kind: "cluster", span, size };
+    }
+    case "probeStmt": {
+      const value = exprOf(c);
+      return value ? { kind: "probe", span, value } : undefined;
+    }
+    case "expectStmt": {
+      const claim = nameRef(ident[0]);
+      if (!claim) return undefined;
+      const axis = exprOf(c);
+      return axis ? { kind: "expect", span, claim, axis } : { kind: "expect", span, claim };
+    }
+    case "junk":
+      return { kind: "junk", span, text: text.slice(span.start, span.end) };
+    default:
+      return undefined;
+  }
+}
+
+function selectorRef(n: CstNode): NameRef | undefined {
+  const c = n.children as Children;
+  return nameRef(tokens(c, "Identifier")[0] ?? tokens(c, "Kw_all")[0]);
+}
+
+const STATEMENT_RULES = [
+  "spinStmt",
+  "conventionStmt",
+  "latticeStmt",
+  "letStmt",
+  "exchangeStmt",
+  "anisotropyStmt",
+  "gStmt",
+  "fieldStmt",
+  "clusterStmt",
+  "probeStmt",
+  "expectStmt",
+  "junk",
+];
+
+export function lowerFile(cst: CstNode, text: string): { file: SpwFile; diagnostics: Diagnostic[] } {
+  const diagnostics: Diagnostic[] = [];
+  const models: ModelBlock[] = [];
+  const c = cst.children as Children;
+  for (const m of nodes(c, "modelBlock")) {
+    const mc = m.children as Children;
+    const span = nodeSpan(m);
+    const kw = tokens(mc, "Kw_model")[0];
+    if (!span || !kw) continue;
+    const nameTok = tokens(mc, "StringLiteral")[0];
+    const name: NameRef = nameTok
+      ? { name: nameTok.image.slice(1, -1), span: tokenSpan(nameTok) }
+      : { name: "", span: tokenSpan(kw) };
+    const statements = byOffset(
+      STATEMENT_RULES.flatMap((r) => nodes(mc, r))
+        .map((s) => lowerStatement(s, text))
+        .filter((s): s is Statement => s !== undefined),
+    );
+    reportJunk(statements, text, diagnostics);
+    const close = tokens(mc, "RBrace")[0];
+    models.push({
+      kind: "model",
+      span,
+      keywordSpan: tokenSpan(kw),
+      name,
+      statements,
+      ...(close ? { closeSpan: tokenSpan(close) } : {}),
+    });
+  }
+  for (const j of nodes(c, "topJunk")) {
+    const span = nodeSpan(j);
+    if (span && diagnostics.length < 50)
+      diagnostics.push(
+        diag(
+          "spw-syntax",
+          span,
+          `Unexpected '${text.slice(span.start, span.end)}' outside the model block: every statement goes inside model "name" { ... }.`,
+        ),
+      );
+  }
+  return { file: { models, span: { start: 0, end: text.length } }, diagnostics };
+}
+
+const STATEMENT_WORDS = "spin, convention, lattice, let, exchange, anisotropy, g, field, cluster, probe, expect";
+
+/** One diagnostic per run of stray tokens on a line, saying what a statement starts with. */
+function reportJunk(statements: Statement[], text: string, diagnostics: Diagnostic[]): void {
+  let run: Span | null = null;
+  const flush = (): void => {
+    if (!run) return;
+    const found = text.slice(run.start, run.end);
+    diagnostics.push(
+      diag("spw-syntax", run, `Unexpected '${found}': a statement inside the model block starts with one of ${STATEMENT_WORDS}.`),
+    );
+    run = null;
+  };
+  for (const s of statements) {
+    if (s.kind !== "junk") {
+      flush();
+      continue;
+    }
+    if (run && !/[\r\n]/.test(text.slice(run.end, s.span.start))) run = { start: run.start, end: s.span.end };
+    else {
+      flush();
+      run = s.span;
+    }
+  }
+  flush();
+}

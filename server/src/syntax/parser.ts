@@ -1,0 +1,404 @@
+// The .spw grammar as a chevrotain CstParser with error recovery. One parser instance is reused
+// (reset through `parser.input`). Semantics live in lower.ts, not here. Syntax layer.
+import { CstParser, EOF, type CstNode, type IRecognitionException, type IToken, type TokenType } from "chevrotain";
+import {
+  ALL_TOKENS,
+  Arrow,
+  Caret,
+  Comma,
+  Equals,
+  Identifier,
+  Kw,
+  LBrace,
+  LBracket,
+  LParen,
+  Minus,
+  NumberLiteral,
+  Plus,
+  RBrace,
+  RBracket,
+  RParen,
+  Slash,
+  Star,
+  StringLiteral,
+  WhiteSpace,
+  Comment,
+} from "./lexer";
+
+/** Tokens that start a statement inside a model block. */
+const STATEMENT_STARTS: TokenType[] = [
+  Kw.spin,
+  Kw.convention,
+  Kw.lattice,
+  Kw.let,
+  Kw.exchange,
+  Kw.anisotropy,
+  Kw.g,
+  Kw.field,
+  Kw.cluster,
+  Kw.probe,
+  Kw.expect,
+];
+
+/** Tokens that cannot start a statement: consumed one at a time as "junk" so recovery goes on. */
+const JUNK_TOKENS: TokenType[] = ALL_TOKENS.filter(
+  (t) => t !== WhiteSpace && t !== Comment && t !== RBrace && t !== Kw.model && !STATEMENT_STARTS.includes(t),
+);
+const TOP_JUNK_TOKENS: TokenType[] = ALL_TOKENS.filter((t) => t !== WhiteSpace && t !== Comment && t !== Kw.model);
+
+class SpwParser extends CstParser {
+  constructor() {
+    super(ALL_TOKENS, { recoveryEnabled: true, maxLookahead: 3 });
+    this.performSelfAnalysis();
+  }
+
+  public file = this.RULE("file", () => {
+    this.MANY(() => {
+      this.OR([{ ALT: () => this.SUBRULE(this.modelBlock) }, { ALT: () => this.SUBRULE(this.topJunk) }]);
+    });
+  });
+
+  private topJunk = this.RULE("topJunk", () => {
+    this.OR(TOP_JUNK_TOKENS.map((t) => ({ ALT: () => this.CONSUME(t) })));
+  });
+
+  private modelBlock = this.RULE("modelBlock", () => {
+    this.CONSUME(Kw.model);
+    this.CONSUME(StringLiteral);
+    this.CONSUME(LBrace);
+    this.MANY(() => {
+      this.OR([
+        { ALT: () => this.SUBRULE(this.spinStmt) },
+        { ALT: () => this.SUBRULE(this.conventionStmt) },
+        { ALT: () => this.SUBRULE(this.latticeStmt) },
+        { ALT: () => this.SUBRULE(this.letStmt) },
+        { ALT: () => this.SUBRULE(this.exchangeStmt) },
+        { ALT: () => this.SUBRULE(this.anisotropyStmt) },
+        { ALT: () => this.SUBRULE(this.gStmt) },
+        { ALT: () => this.SUBRULE(this.fieldStmt) },
+        { ALT: () => this.SUBRULE(this.clusterStmt) },
+        { ALT: () => this.SUBRULE(this.probeStmt) },
+        { ALT: () => this.SUBRULE(this.expectStmt) },
+        { ALT: () => this.SUBRULE(this.junk) },
+      ]);
+    });
+    this.CONSUME(RBrace);
+  });
+
+  private junk = this.RULE("junk", () => {
+    this.OR(JUNK_TOKENS.map((t) => ({ ALT: () => this.CONSUME(t) })));
+  });
+
+  private siteSelector = this.RULE("siteSelector", () => {
+    this.OR([{ ALT: () => this.CONSUME(Identifier) }, { ALT: () => this.CONSUME(Kw.all) }]);
+  });
+
+  private spinStmt = this.RULE("spinStmt", () => {
+    this.CONSUME(Kw.spin);
+    this.OPTION({
+      GATE: () => this.LA(2).tokenType === Equals,
+      DEF: () => {
+        this.SUBRULE(this.siteSelector);
+        this.CONSUME(Equals);
+      },
+    });
+    this.SUBRULE(this.expr);
+  });
+
+  private conventionStmt = this.RULE("conventionStmt", () => {
+    this.CONSUME(Kw.convention);
+    this.CONSUME(Identifier);
+    this.MANY(() => {
+      this.CONSUME(Minus);
+      this.CONSUME2(Identifier);
+    });
+  });
+
+  private latticeStmt = this.RULE("latticeStmt", () => {
+    this.CONSUME(Kw.lattice);
+    this.OR([
+      {
+        ALT: () => {
+          this.CONSUME(Identifier);
+          this.OPTION(() => {
+            this.CONSUME(Kw.sites);
+            this.CONSUME2(Identifier);
+            this.MANY(() => {
+              this.CONSUME(Comma);
+              this.CONSUME3(Identifier);
+            });
+          });
+        },
+      },
+      {
+        ALT: () => {
+          this.CONSUME(LBrace);
+          this.MANY2(() => {
+            this.OR2([
+              { ALT: () => this.SUBRULE(this.vectorStmt) },
+              { ALT: () => this.SUBRULE(this.siteStmt) },
+            ]);
+          });
+          this.CONSUME(RBrace);
+        },
+      },
+    ]);
+  });
+
+  private vectorStmt = this.RULE("vectorStmt", () => {
+    this.CONSUME(Kw.vector);
+    this.CONSUME(Identifier);
+    this.CONSUME(Equals);
+    this.SUBRULE(this.expr);
+  });
+
+  private siteStmt = this.RULE("siteStmt", () => {
+    this.CONSUME(Kw.site);
+    this.CONSUME(Identifier);
+    this.CONSUME(Equals);
+    this.SUBRULE(this.expr);
+    this.OPTION(() => {
+      this.CONSUME(Kw.spin);
+      this.SUBRULE2(this.expr);
+    });
+  });
+
+  private letStmt = this.RULE("letStmt", () => {
+    this.CONSUME(Kw.let);
+    this.CONSUME(Identifier);
+    this.CONSUME(Equals);
+    this.SUBRULE(this.expr);
+  });
+
+  private exchangeStmt = this.RULE("exchangeStmt", () => {
+    this.CONSUME(Kw.exchange);
+    this.CONSUME(Identifier);
+    this.CONSUME(LParen);
+    this.OPTION(() => this.SUBRULE(this.argList));
+    this.CONSUME(RParen);
+    this.CONSUME(Kw.on);
+    this.SUBRULE(this.bondSpec);
+    this.MANY(() => {
+      this.CONSUME(Comma);
+      this.SUBRULE2(this.bondSpec);
+    });
+  });
+
+  private argList = this.RULE("argList", () => {
+    this.SUBRULE(this.expr);
+    this.MANY(() => {
+      this.CONSUME(Comma);
+      this.SUBRULE2(this.expr);
+    });
+  });
+
+  private bondSpec = this.RULE("bondSpec", () => {
+    this.OR([
+      {
+        ALT: () => {
+          this.CONSUME(Kw.shell);
+          this.CONSUME(NumberLiteral);
+        },
+      },
+      {
+        ALT: () => {
+          this.CONSUME(Identifier);
+          this.CONSUME(Arrow);
+          this.CONSUME2(Identifier);
+          this.OPTION(() => {
+            this.CONSUME(Plus);
+            this.SUBRULE(this.primary);
+          });
+        },
+      },
+    ]);
+  });
+
+  private anisotropyStmt = this.RULE("anisotropyStmt", () => {
+    this.CONSUME(Kw.anisotropy);
+    this.SUBRULE(this.siteSelector);
+    this.MANY(() => {
+      this.OR([
+        {
+          ALT: () => {
+            this.CONSUME(Identifier);
+            this.CONSUME(Equals);
+            this.SUBRULE(this.expr);
+          },
+        },
+        {
+          ALT: () => {
+            this.CONSUME(Kw.axis);
+            this.SUBRULE2(this.expr);
+          },
+        },
+      ]);
+    });
+  });
+
+  private gStmt = this.RULE("gStmt", () => {
+    this.CONSUME(Kw.g);
+    this.SUBRULE(this.siteSelector);
+    this.CONSUME(Equals);
+    this.SUBRULE(this.expr);
+  });
+
+  private fieldStmt = this.RULE("fieldStmt", () => {
+    this.CONSUME(Kw.field);
+    this.SUBRULE(this.expr);
+    this.OPTION(() => {
+      this.CONSUME(Kw.along);
+      this.SUBRULE2(this.expr);
+    });
+    this.OPTION2(() => {
+      this.CONSUME(Kw.sweep);
+      this.SUBRULE3(this.expr);
+      this.CONSUME(Kw.to);
+      this.SUBRULE4(this.expr);
+      this.OPTION3(() => {
+        this.CONSUME(Kw.steps);
+        this.SUBRULE5(this.expr);
+      });
+    });
+  });
+
+  private clusterStmt = this.RULE("clusterStmt", () => {
+    this.CONSUME(Kw.cluster);
+    this.SUBRULE(this.expr);
+    this.OPTION(() => {
+      this.OR([{ ALT: () => this.CONSUME(Kw.periodic) }, { ALT: () => this.CONSUME(Kw.open) }]);
+    });
+  });
+
+  private probeStmt = this.RULE("probeStmt", () => {
+    this.CONSUME(Kw.probe);
+    this.SUBRULE(this.expr);
+  });
+
+  private expectStmt = this.RULE("expectStmt", () => {
+    this.CONSUME(Kw.expect);
+    this.CONSUME(Identifier);
+    this.OPTION(() => {
+      this.CONSUME(Kw.about);
+      this.SUBRULE(this.expr);
+    });
+  });
+
+  // Expressions: + - (left), * / (left), unary sign, ^ (right), primaries.
+  public expr = this.RULE("expr", () => {
+    this.SUBRULE(this.multiplicative);
+    this.MANY(() => {
+      this.OR([{ ALT: () => this.CONSUME(Plus) }, { ALT: () => this.CONSUME(Minus) }]);
+      this.SUBRULE2(this.multiplicative);
+    });
+  });
+
+  private multiplicative = this.RULE("multiplicative", () => {
+    this.SUBRULE(this.unary);
+    this.MANY(() => {
+      this.OR([{ ALT: () => this.CONSUME(Star) }, { ALT: () => this.CONSUME(Slash) }]);
+      this.SUBRULE2(this.unary);
+    });
+  });
+
+  private unary = this.RULE("unary", () => {
+    this.OR([
+      {
+        ALT: () => {
+          this.OR2([{ ALT: () => this.CONSUME(Minus) }, { ALT: () => this.CONSUME(Plus) }]);
+          this.SUBRULE(this.unary);
+        },
+      },
+      { ALT: () => this.SUBRULE(this.power) },
+    ]);
+  });
+
+  private power = this.RULE("power", () => {
+    this.SUBRULE(this.primary);
+    this.OPTION(() => {
+      this.CONSUME(Caret);
+      this.SUBRULE(this.unary);
+    });
+  });
+
+  private primary = this.RULE("primary", () => {
+    this.OR([
+      {
+        ALT: () => {
+          this.CONSUME(NumberLiteral);
+          // A name right after a number on the same line is its unit (`14.2 K`, `3 cm^-1`),
+          // unless it starts a clause of its own (`D = ...`).
+          this.OPTION({
+            GATE: () => this.unitFollows(),
+            DEF: () => {
+              this.CONSUME(Identifier);
+              this.OPTION2({
+                GATE: () => this.LA(2).tokenType === Minus || this.LA(2).tokenType === NumberLiteral,
+                DEF: () => {
+                  this.CONSUME(Caret);
+                  this.OPTION3(() => this.CONSUME2(Minus));
+                  this.CONSUME2(NumberLiteral);
+                },
+              });
+            },
+          });
+        },
+      },
+      {
+        ALT: () => {
+          this.CONSUME3(Identifier);
+          this.OPTION4(() => {
+            this.CONSUME(LParen);
+            this.OPTION5(() => this.SUBRULE(this.argList));
+            this.CONSUME(RParen);
+          });
+        },
+      },
+      {
+        ALT: () => {
+          this.CONSUME2(LParen);
+          this.SUBRULE(this.expr);
+          this.MANY(() => {
+            this.CONSUME(Comma);
+            this.SUBRULE2(this.expr);
+          });
+          this.CONSUME2(RParen);
+        },
+      },
+      {
+        ALT: () => {
+          this.CONSUME(LBracket);
+          this.OPTION6(() => {
+            this.SUBRULE3(this.expr);
+            this.MANY2(() => {
+              this.CONSUME2(Comma);
+              this.SUBRULE4(this.expr);
+            });
+          });
+          this.CONSUME(RBracket);
+        },
+      },
+    ]);
+  });
+
+  private unitFollows(): boolean {
+    const next = this.LA(1);
+    if (next.tokenType !== Identifier) return false;
+    if (this.LA(2).tokenType === Equals) return false;
+    const previous = this.LA(0);
+    return previous.endLine === undefined || next.startLine === previous.endLine;
+  }
+}
+
+/** The single parser instance. */
+export const spwParser = new SpwParser();
+
+export interface ParseOutput {
+  readonly cst: CstNode;
+  readonly tokens: IToken[];
+  readonly comments: IToken[];
+  readonly lexErrors: { offset: number; length: number; message: string }[];
+  readonly parseErrors: IRecognitionException[];
+}
+
+export { EOF };
