@@ -66,7 +66,8 @@ export const UNITS: Readonly<Record<string, UnitInfo>> = {
   meV: { dimension: "energy", toCanonical: 1, label: "meV" },
   ueV: { dimension: "energy", toCanonical: 1e-3, label: "µeV" },
   eV: { dimension: "energy", toCanonical: 1e3, label: "eV" },
-  J: { dimension: "energy", toCanonical: 1 / MEV_IN_J, label: "J" },
+  // The SI joule is spelled out: J names exchange constants everywhere (common practice).
+  joule: { dimension: "energy", toCanonical: 1 / MEV_IN_J, label: "J" },
   K: { dimension: "energy", toCanonical: MEV_PER_K, label: "K" },
   mK: { dimension: "energy", toCanonical: MEV_PER_K * 1e-3, label: "mK" },
   MHz: { dimension: "energy", toCanonical: MEV_PER_GHZ * 1e-3, label: "MHz" },
@@ -91,7 +92,7 @@ export const FIELD_UNIT_NAMES = Object.entries(UNITS)
   .map(([k]) => k);
 
 /** Names that denote units and so cannot name parameters. */
-export const UNIT_WORDS = new Set(["meV", "ueV", "eV", "J", "K", "mK", "MHz", "GHz", "THz", "cm", "T", "mT", "G"]);
+export const UNIT_WORDS = new Set(["meV", "ueV", "eV", "joule", "K", "mK", "MHz", "GHz", "THz", "cm", "T", "mT", "G"]);
 
 /** Converts an energy in meV to the given energy unit. */
 export function energyFromMeV(valueMeV: number, unit: string): number {

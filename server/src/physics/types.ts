@@ -1,5 +1,3 @@
-// TEAM NOTE (temporary, lead engineer will remove): before writing anything, read /tmp/rules.md
-// (house rules: no git commits, no package.json edits, no npm install, citation rules).
 // Plain numeric types shared by the physics layer: vectors, 3x3 matrices and the neutral
 // description of a finite spin cluster. Physics layer: no syntax, no model, no editor types.
 

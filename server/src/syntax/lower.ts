@@ -30,6 +30,10 @@ function tokenSpan(t: IToken): Span {
 
 /** The span covered by all real tokens below a node, or null if it has none. */
 function nodeSpan(n: CstNode): Span | null {
+  // Chevrotain tracks node offsets; nodes built during error recovery may lack them.
+  const loc = n.location;
+  if (loc && Number.isFinite(loc.startOffset) && Number.isFinite(loc.endOffset ?? NaN) && !n.recoveredNode)
+    return { start: loc.startOffset, end: (loc.endOffset as number) + 1 };
   let start = Infinity;
   let end = -Infinity;
   const visit = (node: CstNode): void => {
@@ -369,17 +373,23 @@ export function lowerFile(cst: CstNode, text: string): { file: SpwFile; diagnost
       ...(close ? { closeSpan: tokenSpan(close) } : {}),
     });
   }
-  for (const j of nodes(c, "topJunk")) {
-    const span = nodeSpan(j);
-    if (span && diagnostics.length < 50)
-      diagnostics.push(
-        diag(
-          "spw-syntax",
-          span,
-          `Unexpected '${text.slice(span.start, span.end)}' outside the model block: every statement goes inside model "name" { ... }.`,
-        ),
-      );
+  const junk = nodes(c, "topJunk")
+    .map((j) => nodeSpan(j))
+    .filter((x): x is Span => x !== null);
+  const runs: Span[] = [];
+  for (const span of junk) {
+    const last = runs[runs.length - 1];
+    if (last && !/[\r\n]/.test(text.slice(last.end, span.start))) runs[runs.length - 1] = { start: last.start, end: span.end };
+    else runs.push(span);
   }
+  for (const span of runs.slice(0, 20))
+    diagnostics.push(
+      diag(
+        "spw-syntax",
+        span,
+        `Unexpected '${text.slice(span.start, span.end)}' outside the model block: every statement goes inside model "name" { ... }.`,
+      ),
+    );
   return { file: { models, span: { start: 0, end: text.length } }, diagnostics };
 }
 

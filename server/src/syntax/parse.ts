@@ -53,6 +53,8 @@ export function parseSpw(text: string): ParsedFile {
 function syntaxMessage(raw: string, found: string): string {
   const expecting = /Expecting (?:token of type )?--> (.*?) <--/.exec(raw);
   if (expecting?.[1]) {
+    if (expecting[1] === "'='" && found === "'('")
+      return "Function definitions are not allowed: a parameter is a value, e.g. let J2 = 0.2 * J1.";
     const hint = expecting[1] === "'}'" ? " Close the model block with '}'." : "";
     return `Expected ${expecting[1]} here, found ${found}.${hint}`;
   }

@@ -48,7 +48,7 @@ const TOP_JUNK_TOKENS: TokenType[] = ALL_TOKENS.filter((t) => t !== WhiteSpace &
 
 class SpwParser extends CstParser {
   constructor() {
-    super(ALL_TOKENS, { recoveryEnabled: true, maxLookahead: 3 });
+    super(ALL_TOKENS, { recoveryEnabled: true, maxLookahead: 3, nodeLocationTracking: "onlyOffset" });
     this.performSelfAnalysis();
   }
 

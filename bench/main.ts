@@ -1,0 +1,17 @@
+// `npm run bench`: runs every benchmark and prints its figures with their targets.
+import { benchParse } from "./parse";
+
+async function run(): Promise<void> {
+  const sections: [string, () => Promise<string[]> | string[]][] = [["syntax and model", benchParse]];
+  for (const [name, fn] of sections) {
+    console.log(`# ${name}`);
+    for (const line of await fn()) console.log(`  ${line}`);
+  }
+  const mem = process.memoryUsage();
+  console.log(`# process: peak RSS now ${(mem.rss / 2 ** 20).toFixed(0)} MiB, heap used ${(mem.heapUsed / 2 ** 20).toFixed(0)} MiB`);
+}
+
+run().catch((e) => {
+  console.error(e);
+  process.exitCode = 1;
+});

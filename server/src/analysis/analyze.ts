@@ -1,0 +1,35 @@
+// The analysis facade: text in, everything Spinwright knows about it out (syntax tree, semantic
+// model, physics summary, diagnostics). The CLI, the language server and the tests all call this.
+// Analysis layer: no I/O, no editor types.
+import type { Diagnostic } from "../base/diagnostics";
+import { LineIndex } from "../base/text";
+import { buildModel } from "../model/build";
+import type { SpinModel } from "../model/model";
+import { parseSpw, type ParsedFile } from "../syntax/parse";
+import { analyzePhysics, type PhysicsSummary } from "./physics";
+
+export interface DocumentAnalysis {
+  readonly text: string;
+  readonly lines: LineIndex;
+  readonly parsed: ParsedFile;
+  /** Null only when the file holds no model block at all. */
+  readonly model: SpinModel | null;
+  /** Symmetry, conventions, frustration, region, resonance and predictions; null without a model. */
+  readonly physics: PhysicsSummary | null;
+  /** All diagnostics, sorted by position. */
+  readonly diagnostics: readonly Diagnostic[];
+}
+
+export function analyzeDocument(text: string): DocumentAnalysis {
+  const parsed = parseSpw(text);
+  const built = buildModel(parsed.ast, text);
+  const diagnostics: Diagnostic[] = [...parsed.diagnostics, ...built.diagnostics];
+  let physics: PhysicsSummary | null = null;
+  if (built.model) {
+    const result = analyzePhysics(built.model);
+    physics = result.summary;
+    diagnostics.push(...result.diagnostics);
+  }
+  diagnostics.sort((a, b) => a.span.start - b.span.start || a.span.end - b.span.end);
+  return { text, lines: new LineIndex(text), parsed, model: built.model, physics, diagnostics };
+}

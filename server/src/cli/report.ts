@@ -1,0 +1,62 @@
+// The readable report of a model (`spinwright report`): parameters, lattice, couplings, field,
+// then what the physics analysis finds. CLI layer.
+import type { DocumentAnalysis } from "../analysis/analyze";
+import { fmt } from "../model/build";
+import { describeBond } from "../model/build";
+import { MEV_PER_GHZ, MEV_PER_K } from "../model/units";
+import { formatText } from "./format";
+
+export function renderReport(file: string, a: DocumentAnalysis): string {
+  const out: string[] = [];
+  const m = a.model;
+  out.push(`== ${file}${m ? `: model "${m.name}"` : ""}`);
+  if (!m) {
+    out.push(formatText([{ file, lines: a.lines, diagnostics: a.diagnostics }]));
+    return out.join("\n") + "\n";
+  }
+  out.push(`convention: ${m.convention?.value ?? "antiferro-positive (assumed: none given)"}`);
+  if (m.lattice) {
+    const L = m.lattice;
+    out.push(
+      `lattice: ${L.preset ?? "custom"}, ${L.dimension}D, ${L.sites.length} site(s) per cell: ${L.sites.map((s) => `${s.name} (S = ${spinText(s.spin)}, g = ${gText(s.g)})`).join(", ")}`,
+    );
+  }
+  if (m.parameters.size > 0) {
+    out.push("parameters:");
+    for (const p of m.parameters.values()) {
+      const v = p.value;
+      if (!v) out.push(`  ${p.name} = (invalid)`);
+      else if (v.energy === 1 && v.field === 0 && v.shape.length === 0)
+        out.push(`  ${p.name} = ${fmt(v.data[0] ?? 0)} meV = ${fmt((v.data[0] ?? 0) / MEV_PER_K)} K = ${fmt((v.data[0] ?? 0) / MEV_PER_GHZ)} GHz`);
+      else if (v.energy === 0 && v.field === 0 && v.shape.length === 0) out.push(`  ${p.name} = ${fmt(v.data[0] ?? 0)}`);
+      else out.push(`  ${p.name} = ${v.data.map(fmt).join(", ")} (${v.energy ? "meV" : ""}${v.field ? "T" : ""})`);
+    }
+  }
+  if (m.exchanges.length > 0) {
+    out.push("exchange terms:");
+    for (const e of m.exchanges) {
+      const bonds = m.lattice ? e.bonds.map((b) => describeBond(m.lattice!, b.from, b.to, b.offset)) : [];
+      const shown = bonds.length > 4 ? `${bonds.slice(0, 4).join(", ")}, ... (${bonds.length} bonds per cell)` : bonds.join(", ");
+      out.push(`  ${e.kind}${e.couplingName ? ` ${e.couplingName}` : ""} = ${fmt(e.scaleMeV)} meV on ${shown}`);
+    }
+  }
+  if (m.field) out.push(`field: ${fmt(m.field.magnitudeT)} T along (${m.field.direction.map(fmt).join(", ")})`);
+  if (m.cluster) out.push(`cluster: ${m.cluster.cells.join(" x ")} cells, ${m.cluster.boundary}`);
+  if (a.diagnostics.length > 0) {
+    out.push("diagnostics:");
+    out.push(formatText([{ file, lines: a.lines, diagnostics: a.diagnostics }]).replace(/^/gm, "  "));
+  } else out.push("diagnostics: none");
+  return out.join("\n") + "\n";
+}
+
+function spinText(s: number): string {
+  return Number.isInteger(s) ? String(s) : `${Math.round(2 * s)}/2`;
+}
+
+function gText(g: readonly (readonly number[])[]): string {
+  const d = [g[0]?.[0] ?? 0, g[1]?.[1] ?? 0, g[2]?.[2] ?? 0];
+  const off = Math.abs(g[0]?.[1] ?? 0) + Math.abs(g[0]?.[2] ?? 0) + Math.abs(g[1]?.[2] ?? 0) + Math.abs(g[1]?.[0] ?? 0) + Math.abs(g[2]?.[0] ?? 0) + Math.abs(g[2]?.[1] ?? 0);
+  if (off === 0 && d[0] === d[1] && d[1] === d[2]) return fmt(d[0] ?? 0);
+  if (off === 0) return `(${d.map(fmt).join(", ")})`;
+  return "tensor";
+}

@@ -1,0 +1,877 @@
+// Builds the semantic model from the AST: resolves parameters (with cycle detection), evaluates
+// values with units, constructs the lattice, expands bonds, and reports every problem with a
+// stable code, a range and a suggested fix. Never throws. Model layer.
+import { diag, type Diagnostic } from "../base/diagnostics";
+import type { Span } from "../base/text";
+import {
+  IDENTITY3,
+  addMat3,
+  crossMatrix3,
+  diag3,
+  mat3,
+  normalize3,
+  outer3,
+  scale3,
+  scaleMat3,
+  sub3,
+  symmetricEigenvalues3,
+  transpose3,
+  dot3,
+  normMat3,
+  subMat3,
+  ZERO3,
+} from "../physics/linalg3";
+import type { Mat3, Vec3 } from "../physics/types";
+import type { Expr, ModelBlock, NameRef, Statement, SpwFile } from "../syntax/ast";
+import { evaluate, dimensionName, isScalarLike, type EvalContext, type Value } from "./evaluate";
+import { bondKey, bondVector, canonicalBond, neighbourShells, PRESETS } from "./lattice";
+import {
+  EXCHANGE_KINDS,
+  type Bond,
+  type ClusterSpec,
+  type ExchangeKind,
+  type ExchangeTerm,
+  type ExpectSpec,
+  type FieldSpec,
+  type Lattice,
+  type Parameter,
+  type ProbeSpec,
+  type SingleIonTerm,
+  type Site,
+  type SpinModel,
+  type SymbolOccurrence,
+} from "./model";
+import { CONSTANTS, UNIT_WORDS, ENERGY_UNIT_NAMES } from "./units";
+import { isKeyword } from "../syntax/lexer";
+
+export interface BuildResult {
+  readonly model: SpinModel | null;
+  readonly diagnostics: Diagnostic[];
+}
+
+const DEFAULT_G = 2;
+
+export function buildModel(file: SpwFile, text = ""): BuildResult {
+  const diagnostics: Diagnostic[] = [];
+  const first = file.models[0];
+  if (!first) {
+    // Point at the first line with content, or at the start of an empty file.
+    const start = Math.max(0, text.search(/\S/));
+    const lineEnd = text.slice(start).search(/[\r\n]/);
+    const end = lineEnd < 0 ? text.length : start + lineEnd;
+    diagnostics.push(
+      diag("spw-model-missing", { start, end: Math.max(end, start) }, 'No model block found: a .spw file holds one `model "name" { ... }` block. Start with model "my-model" { and end with }.'),
+    );
+    return { model: null, diagnostics };
+  }
+  for (const extra of file.models.slice(1)) {
+    diagnostics.push(
+      diag("spw-statement-duplicate", extra.keywordSpan, "A .spw file holds one model; move this one into a file of its own."),
+    );
+  }
+  const builder = new ModelBuilder(first, diagnostics);
+  return { model: builder.build(), diagnostics };
+}
+
+class ModelBuilder {
+  private readonly params = new Map<string, Parameter>();
+  private readonly paramStatements = new Map<string, Extract<Statement, { kind: "let" }>>();
+  private readonly evaluating = new Set<string>();
+  private readonly symbols: SymbolOccurrence[] = [];
+  private readonly siteIndex = new Map<string, number>();
+  private lattice: Lattice | null = null;
+
+  constructor(
+    private readonly block: ModelBlock,
+    private readonly diagnostics: Diagnostic[],
+  ) {}
+
+  private report(d: Diagnostic): void {
+    this.diagnostics.push(d);
+  }
+
+  private once<K extends Statement["kind"]>(kind: K, what: string): Extract<Statement, { kind: K }> | null {
+    const all = this.block.statements.filter((s): s is Extract<Statement, { kind: K }> => s.kind === kind);
+    for (const extra of all.slice(1)) {
+      this.report(
+        diag("spw-statement-duplicate", extra.span, `A second ${what} statement; a model has one. Remove one of them.`, {
+          related: all[0] ? [{ span: all[0].span, message: `the first ${what} statement` }] : [],
+        }),
+      );
+    }
+    return all[0] ?? null;
+  }
+
+  build(): SpinModel {
+    const st = this.block.statements;
+    this.collectParameters();
+    const convention = this.buildConvention();
+    const sign: 1 | -1 = convention?.value === "ferro-positive" ? -1 : 1;
+    this.lattice = this.buildLattice();
+    for (const s of st) if (s.kind === "let") this.parameter(s.name.name);
+    const exchanges = this.buildExchanges(sign);
+    const singleIon = this.buildSingleIon();
+    const field = this.buildField();
+    const cluster = this.buildCluster();
+    const probe = this.buildProbe();
+    const expect = this.buildExpect();
+    return {
+      name: this.block.name.name,
+      nameSpan: this.block.name.span,
+      span: this.block.span,
+      convention,
+      sign,
+      lattice: this.lattice,
+      parameters: this.params,
+      exchanges,
+      singleIon,
+      field,
+      cluster,
+      probe,
+      expect,
+      symbols: this.symbols,
+    };
+  }
+
+  // ---- parameters -------------------------------------------------------------------------
+
+  private collectParameters(): void {
+    for (const s of this.block.statements) {
+      if (s.kind !== "let") continue;
+      const name = s.name.name;
+      if (UNIT_WORDS.has(name)) {
+        this.report(
+          diag("spw-name-is-unit", s.name.span, `'${name}' is a unit; name the parameter differently, e.g. ${name}1 or ${name}_ex.`),
+        );
+        continue;
+      }
+      if (CONSTANTS[name]) {
+        this.report(diag("spw-name-duplicate", s.name.span, `'${name}' is a built-in constant; choose another name.`));
+        continue;
+      }
+      const previous = this.paramStatements.get(name);
+      if (previous) {
+        this.report(
+          diag("spw-name-duplicate", s.name.span, `'${name}' is already defined; rename one of the two definitions.`, {
+            related: [{ span: previous.name.span, message: `first definition of ${name}` }],
+          }),
+        );
+        continue;
+      }
+      this.paramStatements.set(name, s);
+      this.symbols.push({ name, kind: "parameter", span: s.name.span, isDefinition: true });
+    }
+  }
+
+  private context(): EvalContext {
+    return {
+      lookup: (name) => {
+        if (!this.paramStatements.has(name)) return undefined;
+        return this.parameter(name)?.value ?? null;
+      },
+      report: (d) => this.report(d),
+      reference: (name, span) => this.symbols.push({ name, kind: "parameter", span, isDefinition: false }),
+    };
+  }
+
+  private parameter(name: string): Parameter | null {
+    const done = this.params.get(name);
+    if (done) return done;
+    const s = this.paramStatements.get(name);
+    if (!s) return null;
+    if (this.evaluating.has(name)) {
+      const chain = [...this.evaluating, name];
+      this.report(
+        diag("spw-param-cycle", s.name.span, `'${name}' depends on itself (${chain.join(" -> ")}); give one of them a value of its own.`),
+      );
+      return null;
+    }
+    this.evaluating.add(name);
+    const value = evaluate(s.value, this.context());
+    this.evaluating.delete(name);
+    const p: Parameter = { name, nameSpan: s.name.span, statementSpan: s.span, valueSpan: s.value.span, value };
+    this.params.set(name, p);
+    return p;
+  }
+
+  private eval(e: Expr): Value | null {
+    return evaluate(e, this.context());
+  }
+
+  // ---- typed value helpers ----------------------------------------------------------------
+
+  private energy(e: Expr, what: string, allowDimensionless = false): number | null {
+    const v = this.eval(e);
+    if (!v) return null;
+    if (!isScalarLike(v)) {
+      this.report(diag("spw-value-kind", e.span, `${what} must be a single number, not a vector or matrix.`));
+      return null;
+    }
+    const x = v.data[0] ?? 0;
+    if (v.energy === 1 && v.field === 0) return x;
+    if (v.energy === 0 && v.field === 0) {
+      if (allowDimensionless) return x;
+      this.report(
+        diag("spw-unit-missing", e.span, `${what} needs an energy unit: write e.g. ${fmt(x)} K or ${fmt(x)} meV (energies: ${ENERGY_UNIT_NAMES.join(", ")}).`, {
+          data: { value: x },
+        }),
+      );
+      return null;
+    }
+    if (v.energy === 0 && v.field === 1) {
+      this.report(
+        diag(
+          "spw-unit-mismatch",
+          e.span,
+          `${what} is a magnetic field (${fmt(x)} T), but an energy is needed. For the Zeeman energy of this field multiply by g muB, e.g. 2 * muB * ${fmt(x)} T.`,
+        ),
+      );
+      return null;
+    }
+    this.report(diag("spw-unit-mismatch", e.span, `${what} is ${dimensionName(v)}; an energy is needed.`));
+    return null;
+  }
+
+  private dimensionless(e: Expr, what: string): number | null {
+    const v = this.eval(e);
+    if (!v) return null;
+    if (!isScalarLike(v)) {
+      this.report(diag("spw-value-kind", e.span, `${what} must be a single number.`));
+      return null;
+    }
+    if (v.energy !== 0 || v.field !== 0) {
+      this.report(diag("spw-unit-mismatch", e.span, `${what} must be a pure number, but this is ${dimensionName(v)}.`));
+      return null;
+    }
+    return v.data[0] ?? 0;
+  }
+
+  /** A dimensionless 3-vector (directions, positions); null after reporting. */
+  private vector3(e: Expr, what: string, requireNonZero: boolean): Vec3 | null {
+    const v = this.eval(e);
+    if (!v) return null;
+    if (v.energy !== 0 || v.field !== 0) {
+      this.report(diag("spw-unit-mismatch", e.span, `${what} is a direction or position and takes no unit.`));
+      return null;
+    }
+    if (v.shape.length !== 1 || (v.shape[0] ?? 0) < 1 || (v.shape[0] ?? 0) > 3) {
+      this.report(diag("spw-value-kind", e.span, `${what} must be a vector such as (0, 0, 1).`));
+      return null;
+    }
+    const r: Vec3 = [v.data[0] ?? 0, v.data[1] ?? 0, v.data[2] ?? 0];
+    if (requireNonZero && !normalize3(r)) {
+      this.report(diag("spw-direction-zero", e.span, `${what} has zero length; give a direction such as (0, 0, 1).`));
+      return null;
+    }
+    return r;
+  }
+
+  // ---- statements -------------------------------------------------------------------------
+
+  private buildConvention(): SpinModel["convention"] {
+    const s = this.once("convention", "convention");
+    if (!s) {
+      this.report(
+        diag(
+          "spw-convention-missing",
+          this.block.name.span,
+          "No sign convention given: assuming antiferro-positive (H = +J S_i.S_j, J > 0 antiferromagnetic). Add `convention antiferro-positive` or `convention ferro-positive`.",
+          { data: { insert: "convention antiferro-positive" } },
+        ),
+      );
+      return null;
+    }
+    const v = s.value.name;
+    if (v === "antiferro-positive" || v === "ferro-positive") return { value: v, span: s.value.span };
+    this.report(
+      diag(
+        "spw-convention-unknown",
+        s.value.span,
+        `Unknown convention '${v}': write antiferro-positive (H = +J S_i.S_j) or ferro-positive (H = -J S_i.S_j).`,
+      ),
+    );
+    return null;
+  }
+
+  private spinValue(e: Expr): number | null {
+    const x = this.dimensionless(e, "A spin length");
+    if (x === null) return null;
+    if (!(x > 0) || Math.abs(2 * x - Math.round(2 * x)) > 1e-9) {
+      this.report(
+        diag("spw-spin-invalid", e.span, `Spin ${fmt(x)} is not a positive half-integer; write 1/2, 1, 3/2, 2, ...`),
+      );
+      return null;
+    }
+    return Math.round(2 * x) / 2;
+  }
+
+  private buildLattice(): Lattice | null {
+    const presetStmt = this.block.statements.filter((s) => s.kind === "latticePreset" || s.kind === "latticeCustom");
+    for (const extra of presetStmt.slice(1))
+      this.report(diag("spw-statement-duplicate", extra.span, "A second lattice statement; a model has one lattice. Remove one of them."));
+    const s = presetStmt[0];
+    if (!s) {
+      this.report(
+        diag("spw-lattice-missing", this.block.name.span, "No lattice given: add e.g. `lattice chain` or a custom `lattice { vector a1 = (1, 0, 0)  site A = (0, 0, 0) }`.", {
+          data: { insert: "lattice chain" },
+        }),
+      );
+      return null;
+    }
+    // Default spin and per-site spins.
+    const spinStatements = this.block.statements.filter((x): x is Extract<Statement, { kind: "spin" }> => x.kind === "spin");
+    const defaults = spinStatements.filter((x) => !x.site || x.site.name === "all");
+    for (const extra of defaults.slice(1))
+      this.report(diag("spw-statement-duplicate", extra.span, "A second default spin; give per-site spins as `spin Cu = 1`."));
+    const defaultSpin = defaults[0] ? (this.spinValue(defaults[0].value) ?? 0.5) : 0.5;
+
+    let vectors: Vec3[] = [];
+    let sites: { name: string; nameSpan: Span | null; position: Vec3; spin: number | null }[] = [];
+    let preset: string | null = null;
+    if (s.kind === "latticePreset") {
+      const p = PRESETS[s.preset.name];
+      if (!p) {
+        this.report(
+          diag("spw-lattice-unknown", s.preset.span, `Unknown lattice '${s.preset.name}'. Presets: ${Object.keys(PRESETS).join(", ")}; or write a custom lattice { ... } block.`, {
+            data: { name: s.preset.name, suggestions: closest(s.preset.name, Object.keys(PRESETS)) },
+          }),
+        );
+        return null;
+      }
+      preset = p.name;
+      vectors = p.vectors.map((v) => v);
+      if (s.siteNames.length > 0 && s.siteNames.length !== p.sites.length) {
+        this.report(
+          diag(
+            "spw-lattice-invalid",
+            { start: (s.siteNames[0] as NameRef).span.start, end: (s.siteNames[s.siteNames.length - 1] as NameRef).span.end },
+            `The ${p.name} lattice has ${p.sites.length} site(s) per cell (${p.sites.map((x) => x.name).join(", ")}); name exactly that many.`,
+          ),
+        );
+      }
+      sites = p.sites.map((site, k) => {
+        const named = s.siteNames.length === p.sites.length ? s.siteNames[k] : undefined;
+        return { name: named?.name ?? site.name, nameSpan: named?.span ?? null, position: site.position, spin: null };
+      });
+    } else {
+      for (const v of s.vectors) {
+        const r = this.vector3(v.value, `Lattice vector ${v.name.name}`, true);
+        this.symbols.push({ name: v.name.name, kind: "vector", span: v.name.span, isDefinition: true });
+        if (r) vectors.push(r);
+      }
+      for (const site of s.sites) {
+        const r = this.vector3(site.position, `The position of site ${site.name.name}`, false);
+        const spin = site.spin ? this.spinValue(site.spin) : null;
+        sites.push({ name: site.name.name, nameSpan: site.name.span, position: r ?? ZERO3, spin });
+      }
+      if (sites.length === 0) {
+        this.report(diag("spw-lattice-invalid", s.span, "A custom lattice needs at least one site: add `site A = (0, 0, 0)`."));
+        return null;
+      }
+      if (vectors.length > 3 || !independent(vectors)) {
+        this.report(diag("spw-lattice-invalid", s.span, "The lattice vectors must be 1 to 3 linearly independent vectors."));
+        return null;
+      }
+    }
+    // Names must be unique.
+    const result: Site[] = [];
+    for (const site of sites) {
+      if (this.siteIndex.has(site.name)) {
+        this.report(diag("spw-name-duplicate", site.nameSpan ?? s.span, `Site '${site.name}' is defined twice; give each site its own name.`));
+        continue;
+      }
+      if (isKeyword(site.name)) continue;
+      this.siteIndex.set(site.name, result.length);
+      if (site.nameSpan) this.symbols.push({ name: site.name, kind: "site", span: site.nameSpan, isDefinition: true });
+      result.push({
+        index: result.length,
+        name: site.name,
+        nameSpan: site.nameSpan,
+        position: site.position,
+        spin: site.spin ?? defaultSpin,
+        g: scaleMat3(IDENTITY3, DEFAULT_G),
+        gSpan: null,
+      });
+    }
+    // Per-site spin statements.
+    for (const sp of spinStatements) {
+      if (!sp.site || sp.site.name === "all") continue;
+      const idx = this.site(sp.site);
+      const v = this.spinValue(sp.value);
+      const target = idx === null ? undefined : result[idx];
+      if (target && v !== null) result[idx as number] = { ...target, spin: v };
+    }
+    const lattice: Lattice = { preset, span: s.span, vectors, sites: result, dimension: vectors.length };
+    this.lattice = lattice;
+    this.applyG(result);
+    return { ...lattice, sites: result };
+  }
+
+  /** Resolves a site name (recording the reference); reports and returns null if unknown. */
+  private site(ref: NameRef): number | null {
+    const idx = this.siteIndex.get(ref.name);
+    if (idx === undefined) {
+      const known = [...this.siteIndex.keys()];
+      const suggestion = closest(ref.name, known);
+      this.report(
+        diag(
+          "spw-site-unknown",
+          ref.span,
+          `Unknown site '${ref.name}'. The lattice has ${known.length ? known.join(", ") : "no sites"}${suggestion.length ? `; did you mean ${suggestion[0]}?` : "."}`,
+          { data: { name: ref.name, suggestions: suggestion } },
+        ),
+      );
+      return null;
+    }
+    this.symbols.push({ name: ref.name, kind: "site", span: ref.span, isDefinition: false });
+    return idx;
+  }
+
+  private sitesOf(ref: NameRef): number[] {
+    if (ref.name === "all") return this.lattice ? this.lattice.sites.map((s) => s.index) : [];
+    const i = this.site(ref);
+    return i === null ? [] : [i];
+  }
+
+  private applyG(sites: Site[]): void {
+    for (const s of this.block.statements) {
+      if (s.kind !== "g") continue;
+      const targets = this.sitesOf(s.site);
+      const v = this.eval(s.value);
+      if (!v) continue;
+      if (v.energy !== 0 || v.field !== 0) {
+        this.report(diag("spw-unit-mismatch", s.value.span, `A g-tensor is a pure number, but this is ${dimensionName(v)}.`));
+        continue;
+      }
+      let g: Mat3;
+      if (isScalarLike(v)) g = scaleMat3(IDENTITY3, v.data[0] ?? 0);
+      else if (v.shape.length === 1 && v.shape[0] === 3) g = diag3(v.data[0] ?? 0, v.data[1] ?? 0, v.data[2] ?? 0);
+      else if (v.shape.length === 2 && v.shape[0] === 3 && v.shape[1] === 3) g = mat3([v.data.slice(0, 3), v.data.slice(3, 6), v.data.slice(6, 9)]);
+      else {
+        this.report(diag("spw-value-kind", s.value.span, "A g-tensor is a number, a vector (gx, gy, gz) or a 3x3 matrix [[...], [...], [...]]."));
+        continue;
+      }
+      if (normMat3(subMat3(g, transpose3(g))) > 1e-9 * Math.max(1, normMat3(g))) {
+        this.report(
+          diag("spw-g-asymmetric", s.value.span, "This g-tensor is not symmetric; a physical g-tensor usually is (check the transposition)."),
+        );
+      }
+      const sym = scaleMat3(addMat3(g, transpose3(g)), 0.5);
+      if (symmetricEigenvalues3(sym)[0] <= 0) {
+        this.report(
+          diag("spw-g-not-positive", s.value.span, "This g-tensor is not positive definite (an eigenvalue is zero or negative); check the signs."),
+        );
+      }
+      for (const t of targets) {
+        const site = sites[t];
+        if (site) sites[t] = { ...site, g, gSpan: s.span };
+      }
+    }
+  }
+
+  // ---- exchange ---------------------------------------------------------------------------
+
+  private buildExchanges(sign: 1 | -1): ExchangeTerm[] {
+    const out: ExchangeTerm[] = [];
+    const seen = new Map<string, { span: Span; kind: ExchangeKind }>();
+    for (const s of this.block.statements) {
+      if (s.kind !== "exchange") continue;
+      const kindName = s.exchangeKind.name;
+      if (!(EXCHANGE_KINDS as readonly string[]).includes(kindName)) {
+        this.report(
+          diag("spw-kind-unknown", s.exchangeKind.span, `Unknown exchange kind '${kindName}'. Kinds: heisenberg(J), xxz(J, delta), xyz(Jx, Jy, Jz), dm(D, (x, y, z)), matrix([[...]]).`, {
+            data: { name: kindName, suggestions: closest(kindName, [...EXCHANGE_KINDS]) },
+          }),
+        );
+        continue;
+      }
+      const kind = kindName as ExchangeKind;
+      const written = this.exchangeMatrix(kind, s);
+      const bonds = this.expandBonds(s, kind, seen);
+      if (!written) continue;
+      const first = s.args[0];
+      out.push({
+        index: out.length,
+        kind,
+        span: s.span,
+        kindSpan: s.exchangeKind.span,
+        argsSpan: s.argsSpan,
+        couplingName: first && first.kind === "name" && this.paramStatements.has(first.name) ? first.name : null,
+        writtenMatrixMeV: written.matrix,
+        matrixMeV: scaleMat3(written.matrix, sign),
+        scaleMeV: written.scale,
+        bonds,
+      });
+    }
+    return out;
+  }
+
+  private exchangeMatrix(kind: ExchangeKind, s: Extract<Statement, { kind: "exchange" }>): { matrix: Mat3; scale: number } | null {
+    const args = s.args;
+    const wrongCount = (expected: string): null => {
+      this.report(diag("spw-kind-arguments", s.argsSpan, `${kind} takes ${expected}; found ${args.length} argument(s).`));
+      return null;
+    };
+    const a0 = args[0];
+    switch (kind) {
+      case "heisenberg": {
+        if (args.length !== 1 || !a0) return wrongCount("one coupling: heisenberg(J)");
+        const j = this.energy(a0, "The coupling");
+        return j === null ? null : { matrix: scaleMat3(IDENTITY3, j), scale: j };
+      }
+      case "xxz": {
+        const a1 = args[1];
+        if ((args.length !== 2 && args.length !== 3) || !a0 || !a1) return wrongCount("a coupling and an anisotropy: xxz(J, delta) or xxz(J, delta, (axis))");
+        const j = this.energy(a0, "The coupling");
+        const delta = this.dimensionless(a1, "The anisotropy delta");
+        const axisExpr = args[2];
+        const axis = axisExpr ? this.vector3(axisExpr, "The anisotropy axis", true) : ([0, 0, 1] as Vec3);
+        if (j === null || delta === null || !axis) return null;
+        const n = normalize3(axis) as Vec3;
+        // J (1 - n n^T) + J delta n n^T: XXZ about the axis n.
+        const nn = outer3(n, n);
+        return { matrix: addMat3(scaleMat3(subMat3(IDENTITY3, nn), j), scaleMat3(nn, j * delta)), scale: j };
+      }
+      case "xyz": {
+        if (args.length !== 3) return wrongCount("three couplings: xyz(Jx, Jy, Jz)");
+        const js = args.map((a, k) => this.energy(a, `The coupling J${"xyz"[k]}`));
+        if (js.some((x) => x === null)) return null;
+        const [jx, jy, jz] = js as [number, number, number];
+        return { matrix: diag3(jx, jy, jz), scale: (jx + jy + jz) / 3 };
+      }
+      case "dm": {
+        const a1 = args[1];
+        if (args.length !== 2 || !a0 || !a1) return wrongCount("a strength and a direction: dm(D, (x, y, z))");
+        const d = this.energy(a0, "The DM strength");
+        const axis = this.vector3(a1, "The DM direction", true);
+        if (d === null || !axis) return null;
+        const dv = scale3(normalize3(axis) as Vec3, d);
+        // S_i . J . S_j = D . (S_i x S_j) for J_yz = D_x, J_zy = -D_x and cyclic, i.e. J = -[D]_x.
+        return { matrix: scaleMat3(crossMatrix3(dv), -1), scale: d };
+      }
+      case "matrix": {
+        if (args.length !== 1 && args.length !== 2) return wrongCount("a 3x3 energy matrix, or a coupling and a pure-number matrix: matrix([[...]]) or matrix(J, [[...]])");
+        const mExpr = args.length === 2 ? args[1] : a0;
+        const jExpr = args.length === 2 ? a0 : undefined;
+        if (!mExpr) return null;
+        const m = this.eval(mExpr);
+        const j = jExpr ? this.energy(jExpr, "The coupling") : 1;
+        if (!m || j === null) return null;
+        if (m.shape.length !== 2 || m.shape[0] !== 3 || m.shape[1] !== 3) {
+          this.report(diag("spw-value-kind", mExpr.span, "The exchange matrix must be 3x3: [[Jxx, Jxy, Jxz], [Jyx, Jyy, Jyz], [Jzx, Jzy, Jzz]]."));
+          return null;
+        }
+        const needEnergy = jExpr === undefined;
+        if (needEnergy && !(m.energy === 1 && m.field === 0)) {
+          this.report(diag(m.energy === 0 && m.field === 0 ? "spw-unit-missing" : "spw-unit-mismatch", mExpr.span, "The exchange matrix needs an energy unit: write matrix(J, [[...]]) with J an energy, or give the entries units."));
+          return null;
+        }
+        if (!needEnergy && !(m.energy === 0 && m.field === 0)) {
+          this.report(diag("spw-unit-mismatch", mExpr.span, "With a coupling in front, the matrix must be pure numbers."));
+          return null;
+        }
+        const mm = scaleMat3(mat3([m.data.slice(0, 3), m.data.slice(3, 6), m.data.slice(6, 9)]), j);
+        return { matrix: mm, scale: (mm[0][0] + mm[1][1] + mm[2][2]) / 3 };
+      }
+    }
+  }
+
+  private expandBonds(
+    s: Extract<Statement, { kind: "exchange" }>,
+    kind: ExchangeKind,
+    seen: Map<string, { span: Span; kind: ExchangeKind }>,
+  ): Bond[] {
+    const lattice = this.lattice;
+    const bonds: Bond[] = [];
+    if (!lattice) {
+      for (const b of s.bonds) if (b.kind === "explicit") this.site(b.from), this.site(b.to);
+      return bonds;
+    }
+    const positions = lattice.sites.map((x) => x.position);
+    const add = (from: number, to: number, offset: readonly number[], span: Span, shell: number | null): void => {
+      const key = `${kind}:${bondKey(from, to, offset)}`;
+      const prev = seen.get(key);
+      if (prev) {
+        this.report(
+          diag(
+            "spw-bond-duplicate",
+            span,
+            `This ${kind} bond ${describeBond(lattice, from, to, offset)} is already given; it would be counted twice. Remove one of them.`,
+            { related: [{ span: prev.span, message: "the bond given first" }], data: { bond: describeBond(lattice, from, to, offset) } },
+          ),
+        );
+        return;
+      }
+      seen.set(key, { span, kind });
+      const c = canonicalBond(from, to, offset);
+      const distance = Math.hypot(...bondVector(lattice.vectors, positions, c.from, c.to, c.offset));
+      bonds.push({ from: c.from, to: c.to, offset: c.offset, distance, span, shell });
+    };
+    for (const b of s.bonds) {
+      if (b.kind === "shell") {
+        if (!Number.isInteger(b.shell) || b.shell < 1 || b.shell > 6) {
+          this.report(diag("spw-shell-empty", b.shellSpan, "A neighbour shell is a whole number from 1 (nearest) to 6."));
+          continue;
+        }
+        const shells = neighbourShells(lattice.vectors, positions, b.shell);
+        const list = shells.bonds[b.shell - 1];
+        if (!list || list.length === 0) {
+          this.report(diag("spw-shell-empty", b.shellSpan, `The lattice has no neighbour shell ${b.shell} within the search range.`));
+          continue;
+        }
+        for (const x of list) add(x.from, x.to, x.offset, b.span, b.shell);
+        continue;
+      }
+      const from = this.site(b.from);
+      const to = this.site(b.to);
+      let offset: number[] = new Array<number>(lattice.dimension).fill(0);
+      if (b.offset) {
+        const v = this.eval(b.offset);
+        if (!v) continue;
+        const comps = v.shape.length === 0 ? [...v.data] : v.shape.length === 1 ? [...v.data] : null;
+        if (!comps || v.energy !== 0 || v.field !== 0) {
+          this.report(diag("spw-offset-dimension", b.offset.span, `A cell offset is a tuple of ${lattice.dimension} whole number(s), e.g. (${new Array(lattice.dimension).fill(1).join(", ")}).`));
+          continue;
+        }
+        if (comps.length !== lattice.dimension) {
+          this.report(
+            diag(
+              "spw-offset-dimension",
+              b.offset.span,
+              `This ${lattice.dimension}D lattice needs ${lattice.dimension} offset component(s), found ${comps.length}; write (${[...comps, 0, 0, 0].slice(0, lattice.dimension).map(fmt).join(", ")}).`,
+            ),
+          );
+          continue;
+        }
+        if (comps.some((x) => !Number.isInteger(x))) {
+          this.report(
+            diag("spw-offset-noninteger", b.offset.span, `Cell offsets count whole cells; found (${comps.map(fmt).join(", ")}). Round them or add a site at that position.`),
+          );
+          continue;
+        }
+        offset = comps.map((x) => x || 0);
+      }
+      if (from === null || to === null) continue;
+      if (from === to && offset.every((x) => x === 0)) {
+        this.report(
+          diag("spw-bond-self", b.span, `A bond from ${b.from.name} to itself in the same cell; add a cell offset, e.g. ${b.from.name} -> ${b.to.name} + (${["1", ...new Array(lattice.dimension - 1).fill("0")].join(", ")}).`),
+        );
+        continue;
+      }
+      add(from, to, offset, b.span, null);
+    }
+    return bonds;
+  }
+
+  // ---- single-ion, field, cluster, probe, expect --------------------------------------------
+
+  private buildSingleIon(): SingleIonTerm[] {
+    const out: SingleIonTerm[] = [];
+    for (const s of this.block.statements) {
+      if (s.kind !== "anisotropy") continue;
+      const targets = this.sitesOf(s.site);
+      let d = 0;
+      let e = 0;
+      let m: Mat3 | null = null;
+      let ok = true;
+      for (const c of s.clauses) {
+        if (c.name.name === "D") d = this.energy(c.value, "The single-ion D") ?? ((ok = false), 0);
+        else if (c.name.name === "E") e = this.energy(c.value, "The single-ion E") ?? ((ok = false), 0);
+        else if (c.name.name === "matrix") {
+          const v = this.eval(c.value);
+          if (!v || v.shape.length !== 2 || v.shape[0] !== 3 || v.shape[1] !== 3 || v.energy !== 1 || v.field !== 0) {
+            this.report(diag("spw-anisotropy-invalid", c.value.span, "A single-ion matrix is a 3x3 matrix of energies, e.g. [[0, 0, 0], [0, 0, 0], [0, 0, 1]] * D."));
+            ok = false;
+          } else m = mat3([v.data.slice(0, 3), v.data.slice(3, 6), v.data.slice(6, 9)]);
+        } else {
+          this.report(diag("spw-anisotropy-invalid", c.name.span, `Unknown single-ion clause '${c.name.name}': write D = ..., E = ..., axis (x, y, z) or matrix = [[...]].`));
+          ok = false;
+        }
+      }
+      if (s.clauses.length === 0) {
+        this.report(diag("spw-anisotropy-invalid", s.span, "A single-ion term needs D = ... (and optionally E = ... and axis (x, y, z))."));
+        continue;
+      }
+      const axis = s.axis ? this.vector3(s.axis, "The anisotropy axis", true) : ([0, 0, 1] as Vec3);
+      if (!ok || !axis) continue;
+      let a: Mat3;
+      if (m) a = scaleMat3(addMat3(m, transpose3(m)), 0.5);
+      else {
+        const n = normalize3(axis) as Vec3;
+        // The x axis of the E term: the global x (or y) direction made perpendicular to n.
+        const ref: Vec3 = Math.abs(n[0]) < 0.9 ? [1, 0, 0] : [0, 1, 0];
+        const x = normalize3(sub3(ref, scale3(n, dot3(ref, n)))) as Vec3;
+        const y: Vec3 = [n[1] * x[2] - n[2] * x[1], n[2] * x[0] - n[0] * x[2], n[0] * x[1] - n[1] * x[0]];
+        a = addMat3(scaleMat3(outer3(n, n), d), scaleMat3(subMat3(outer3(x, x), outer3(y, y)), e));
+      }
+      const halfSpin = targets.filter((t) => this.lattice?.sites[t]?.spin === 0.5);
+      if (targets.length > 0 && halfSpin.length === targets.length) {
+        this.report(
+          diag(
+            "spw-single-ion-constant",
+            s.span,
+            "For spin 1/2 a single-ion term is a constant ((S^a)^2 = 1/4): it has no effect on the physics. Remove it, or give the site a larger spin.",
+            { tags: ["unnecessary"] },
+          ),
+        );
+      }
+      for (const t of targets) out.push({ site: t, span: s.span, matrixMeV: a });
+    }
+    return out;
+  }
+
+  private buildField(): FieldSpec | null {
+    const s = this.once("field", "field");
+    if (!s) return null;
+    const magnitude = this.fieldValue(s.magnitude, "The field");
+    const dirRaw = s.direction ? this.vector3(s.direction, "The field direction", true) : ([0, 0, 1] as Vec3);
+    if (magnitude === null || !dirRaw) return null;
+    const direction = normalize3(dirRaw) as Vec3;
+    let sweep: FieldSpec["sweep"] = null;
+    if (s.sweep) {
+      const from = this.fieldValue(s.sweep.from, "The sweep start");
+      const to = this.fieldValue(s.sweep.to, "The sweep end");
+      const steps = s.sweep.steps ? this.dimensionless(s.sweep.steps, "The number of sweep steps") : 25;
+      if (from !== null && to !== null && steps !== null) {
+        if (!Number.isInteger(steps) || steps < 2 || steps > 2000 || !(to > from)) {
+          this.report(diag("spw-sweep-invalid", s.sweep.span, "A sweep goes from a lower to a higher field in 2 to 2000 steps, e.g. sweep 0 T to 12 T steps 50."));
+        } else sweep = { fromT: from, toT: to, steps, span: s.sweep.span };
+      }
+    }
+    return { span: s.span, magnitudeSpan: s.magnitude.span, magnitudeT: magnitude, direction, vectorT: scale3(direction, magnitude), sweep };
+  }
+
+  private fieldValue(e: Expr, what: string): number | null {
+    const v = this.eval(e);
+    if (!v) return null;
+    if (!isScalarLike(v)) {
+      this.report(diag("spw-value-kind", e.span, `${what} is a magnitude; give the direction with 'along (x, y, z)'.`));
+      return null;
+    }
+    const x = v.data[0] ?? 0;
+    if (v.energy === 0 && v.field === 1) return x;
+    if (v.energy === 1 && v.field === 0) {
+      this.report(
+        diag(
+          "spw-unit-mismatch",
+          e.span,
+          `${what} is an energy (${fmt(x)} meV), but a magnetic field is needed (T, mT, G). If this is the Zeeman energy, divide by g muB: e.g. (${fmt(x)} meV) / (2 * muB).`,
+        ),
+      );
+      return null;
+    }
+    if (v.energy === 0 && v.field === 0) {
+      this.report(diag("spw-unit-missing", e.span, `${what} needs a unit: write e.g. ${fmt(x)} T (or mT, G).`, { data: { value: x } }));
+      return null;
+    }
+    this.report(diag("spw-unit-mismatch", e.span, `${what} is ${dimensionName(v)}; a magnetic field (T, mT, G) is needed.`));
+    return null;
+  }
+
+  private buildCluster(): ClusterSpec | null {
+    const s = this.once("cluster", "cluster");
+    if (!s) return null;
+    const v = this.eval(s.size);
+    const dim = this.lattice?.dimension ?? 1;
+    if (!v) return null;
+    const comps = v.shape.length <= 1 ? [...v.data] : null;
+    if (!comps || v.energy !== 0 || v.field !== 0 || comps.some((x) => !Number.isInteger(x) || x < 1 || x > 4096)) {
+      this.report(diag("spw-cluster-invalid", s.size.span, "A cluster size counts unit cells: a whole number per lattice direction, e.g. cluster 20 periodic or cluster (6, 6) periodic."));
+      return null;
+    }
+    if (comps.length !== dim && comps.length !== 1) {
+      this.report(diag("spw-cluster-invalid", s.size.span, `This ${dim}D lattice needs ${dim} cluster sizes, e.g. (${new Array(dim).fill(4).join(", ")}).`));
+      return null;
+    }
+    const cells = comps.length === dim ? comps : new Array<number>(dim).fill(comps[0] ?? 1);
+    return { span: s.span, cells, boundary: s.boundary?.name === "open" ? "open" : "periodic" };
+  }
+
+  private buildProbe(): ProbeSpec | null {
+    const s = this.once("probe", "probe");
+    if (!s) return null;
+    const e = this.energy(s.value, "The probe frequency");
+    if (e === null) return null;
+    if (!(e > 0)) {
+      this.report(diag("spw-value-invalid", s.value.span, "A probe frequency must be positive, e.g. probe 240 GHz."));
+      return null;
+    }
+    return { span: s.span, energyMeV: e };
+  }
+
+  private buildExpect(): ExpectSpec | null {
+    const s = this.once("expect", "expect");
+    if (!s) return null;
+    const c = s.claim.name;
+    if (c !== "su2" && c !== "u1" && c !== "none") {
+      this.report(diag("spw-expect-unknown", s.claim.span, `Unknown symmetry '${c}': write expect su2, expect u1 about (x, y, z), or expect none.`));
+      return null;
+    }
+    let axis: Vec3 | null = null;
+    if (c === "u1") {
+      if (!s.axis) {
+        this.report(diag("spw-expect-unknown", s.claim.span, "A U(1) claim names its axis: expect u1 about (0, 0, 1)."));
+        return null;
+      }
+      const a = this.vector3(s.axis, "The U(1) axis", true);
+      if (!a) return null;
+      axis = normalize3(a);
+    } else if (s.axis) {
+      this.report(diag("spw-expect-unknown", s.axis.span, `Only a u1 claim takes an axis; write 'expect ${c}'.`));
+    }
+    return { span: s.span, claimSpan: s.claim.span, claim: c, axis };
+  }
+}
+
+function independent(vectors: readonly Vec3[]): boolean {
+  if (vectors.length === 0) return false;
+  // Gram determinant > 0 for linearly independent vectors.
+  const n = vectors.length;
+  const gram: number[][] = vectors.map((a) => vectors.map((b) => dot3(a, b)));
+  const det = n === 1 ? (gram[0]?.[0] ?? 0) : n === 2 ? (gram[0]?.[0] ?? 0) * (gram[1]?.[1] ?? 0) - (gram[0]?.[1] ?? 0) ** 2 : det3x3(gram);
+  const scale = vectors.reduce((p, v) => p * dot3(v, v), 1);
+  return det > 1e-12 * scale;
+}
+
+function det3x3(g: number[][]): number {
+  const a = (i: number, j: number): number => g[i]?.[j] ?? 0;
+  return (
+    a(0, 0) * (a(1, 1) * a(2, 2) - a(1, 2) * a(2, 1)) -
+    a(0, 1) * (a(1, 0) * a(2, 2) - a(1, 2) * a(2, 0)) +
+    a(0, 2) * (a(1, 0) * a(2, 1) - a(1, 1) * a(2, 0))
+  );
+}
+
+export function describeBond(lattice: Lattice, from: number, to: number, offset: readonly number[]): string {
+  const name = (i: number): string => lattice.sites[i]?.name ?? `#${i}`;
+  const off = offset.some((x) => x !== 0) ? ` + (${offset.join(", ")})` : "";
+  return `${name(from)} -> ${name(to)}${off}`;
+}
+
+/** Formats a number for messages: up to 6 significant digits, no trailing zeros. */
+export function fmt(x: number): string {
+  if (!Number.isFinite(x)) return String(x);
+  if (x === 0) return "0";
+  const s = Math.abs(x) >= 1e-3 && Math.abs(x) < 1e6 ? String(Number(x.toPrecision(6))) : x.toExponential(4);
+  return s;
+}
+
+/** Candidates within edit distance 2, nearest first. */
+export function closest(word: string, candidates: readonly string[]): string[] {
+  const dist = (a: string, b: string): number => {
+    const dp = Array.from({ length: a.length + 1 }, (_, i) => [i, ...new Array<number>(b.length).fill(0)]);
+    for (let j = 1; j <= b.length; j++) (dp[0] as number[])[j] = j;
+    for (let i = 1; i <= a.length; i++)
+      for (let j = 1; j <= b.length; j++) {
+        const row = dp[i] as number[];
+        const prev = dp[i - 1] as number[];
+        row[j] = Math.min((prev[j] ?? 0) + 1, (row[j - 1] ?? 0) + 1, (prev[j - 1] ?? 0) + (a[i - 1] === b[j - 1] ? 0 : 1));
+      }
+    return (dp[a.length] as number[])[b.length] ?? 99;
+  };
+  return candidates
+    .map((c) => ({ c, d: dist(word.toLowerCase(), c.toLowerCase()) }))
+    .filter((x) => x.d <= 2)
+    .sort((a, b) => a.d - b.d)
+    .map((x) => x.c);
+}

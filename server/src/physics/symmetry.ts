@@ -1,0 +1,770 @@
+// Spin-rotation symmetry algebra of a set of exchange, single-ion and Zeeman tensors: splits each
+// tensor into its isotropic, antisymmetric (DM) and symmetric traceless parts, finds the common
+// U(1) axis if there is one, and says which terms break the Larmor protection of the q = 0 line.
+// Physics layer: pure functions of numbers; terms carry opaque `id` tags chosen by the caller.
+import type { Mat3, Vec3 } from "./types";
+import {
+  IDENTITY3,
+  addMat3,
+  cross3,
+  crossMatrix3,
+  dot3,
+  mulMat3,
+  mulMatVec3,
+  norm3,
+  normMat3,
+  normalize3,
+  outer3,
+  scale3,
+  scaleMat3,
+  sub3,
+  subMat3,
+  trace3,
+  transpose3,
+} from "./linalg3";
+
+// ---------------------------------------------------------------------------------------------
+// Small linear algebra that linalg3 does not provide (kept here: linalg3 is shared and frozen).
+// ---------------------------------------------------------------------------------------------
+
+/** Eigen-decomposition of a real symmetric 3x3 matrix; values ascending, vectors[k] unit. */
+export interface SymmetricEigen3 {
+  readonly values: Vec3;
+  readonly vectors: readonly [Vec3, Vec3, Vec3];
+}
+
+/**
+ * Cyclic Jacobi rotations (Numerical Recipes, 3rd ed., section 11.1). Chosen over the closed-form
+ * trigonometric eigenvalues of linalg3 because those lose about half the digits near a double
+ * eigenvalue (acos near +-1), which is exactly the uniaxial (XXZ-like) case that we must detect
+ * at a relative tolerance of 1e-9; Jacobi keeps values and vectors accurate to ~1e-16 * ||m||.
+ * Only the symmetric part (m + m^T)/2 is used.
+ */
+export function symmetricEigen3(m: Mat3): SymmetricEigen3 {
+  const a: number[][] = [0, 1, 2].map((i) => [0, 1, 2].map((j) => 0.5 * (m[i]![j]! + m[j]![i]!)));
+  const v: number[][] = [
+    [1, 0, 0],
+    [0, 1, 0],
+    [0, 0, 1],
+  ];
+  const at = (i: number, j: number): number => a[i]![j]!;
+  const scaleNorm = Math.sqrt(a.flat().reduce((s, x) => s + x * x, 0));
+  for (let sweep = 0; sweep < 64; sweep++) {
+    const off = at(0, 1) ** 2 + at(0, 2) ** 2 + at(1, 2) ** 2;
+    if (!(off > (1e-17 * scaleNorm) ** 2)) break;
+    for (const [p, q] of [
+      [0, 1],
+      [0, 2],
+      [1, 2],
+    ] as const) {
+      const apq = at(p, q);
+      if (apq === 0) continue;
+      // Rotation P with P_pp = P_qq = c, P_pq = s, P_qp = -s zeroes a'_pq in a' = P^T a P.
+      const theta = (at(q, q) - at(p, p)) / (2 * apq);
+      const t = (theta >= 0 ? 1 : -1) / (Math.abs(theta) + Math.sqrt(theta * theta + 1));
+      const c = 1 / Math.sqrt(t * t + 1);
+      const s = t * c;
+      for (let k = 0; k < 3; k++) {
+        const akp = at(k, p);
+        const akq = at(k, q);
+        a[k]![p] = c * akp - s * akq;
+        a[k]![q] = s * akp + c * akq;
+      }
+      for (let k = 0; k < 3; k++) {
+        const apk = at(p, k);
+        const aqk = at(q, k);
+        a[p]![k] = c * apk - s * aqk;
+        a[q]![k] = s * apk + c * aqk;
+      }
+      for (let k = 0; k < 3; k++) {
+        const vkp = v[k]![p]!;
+        const vkq = v[k]![q]!;
+        v[k]![p] = c * vkp - s * vkq;
+        v[k]![q] = s * vkp + c * vkq;
+      }
+    }
+  }
+  const order = [0, 1, 2].sort((i, j) => at(i, i) - at(j, j));
+  const column = (k: number): Vec3 => [v[0]![k]!, v[1]![k]!, v[2]![k]!];
+  const [o0, o1, o2] = [order[0] ?? 0, order[1] ?? 1, order[2] ?? 2];
+  return {
+    values: [at(o0, o0), at(o1, o1), at(o2, o2)],
+    vectors: [column(o0), column(o1), column(o2)],
+  };
+}
+
+/** Symmetric part (m + m^T)/2. */
+export function symmetricPart3(m: Mat3): Mat3 {
+  return scaleMat3(addMat3(m, transpose3(m)), 0.5);
+}
+
+/** Symmetric traceless part (m + m^T)/2 - tr(m)/3 * 1. */
+export function symmetricTracelessPart3(m: Mat3): Mat3 {
+  return subMat3(symmetricPart3(m), scaleMat3(IDENTITY3, trace3(m) / 3));
+}
+
+/**
+ * Axial vector of the antisymmetric part of m, with the DM convention of physics-notes section 2:
+ * D_x = (m_yz - m_zy)/2 and cyclic, so that S_i . ((m - m^T)/2) . S_j = D . (S_i x S_j)
+ * (derivable: the antisymmetric part has elements D_a eps_abc, i.e. it equals -[D]_x).
+ */
+export function axialVector3(m: Mat3): Vec3 {
+  return [(m[1][2] - m[2][1]) / 2, (m[2][0] - m[0][2]) / 2, (m[0][1] - m[1][0]) / 2];
+}
+
+/** Matrix commutator a b - b a. */
+export function commutator3(a: Mat3, b: Mat3): Mat3 {
+  return subMat3(mulMat3(a, b), mulMat3(b, a));
+}
+
+/** Uniaxial form a*1 + b*n n^T + c*[n]_x evaluated for a unit axis n. */
+export function uniaxialMatrix3(n: Vec3, a: number, b: number, c: number): Mat3 {
+  return addMat3(addMat3(scaleMat3(IDENTITY3, a), scaleMat3(outer3(n, n), b)), scaleMat3(crossMatrix3(n), c));
+}
+
+// ---------------------------------------------------------------------------------------------
+// Decompositions
+// ---------------------------------------------------------------------------------------------
+
+/** Parts of an exchange matrix J in S_i . J . S_j (energy units of the input). */
+export interface ExchangeDecomposition {
+  /** Isotropic exchange J = tr(J)/3 (physics-notes section 2). */
+  readonly isotropic: number;
+  /** DM vector: antisymmetric part equals D . (S_i x S_j). */
+  readonly dm: Vec3;
+  /** Symmetric traceless part ("anisotropic exchange"). */
+  readonly anisotropic: Mat3;
+  /**
+   * Norms: |J|, |D| (vector norm) and the Frobenius norm of the anisotropic part. The three parts
+   * are orthogonal in the Frobenius product, so ||J_matrix||^2 = 3 J^2 + 2 |D|^2 + ||T||^2.
+   */
+  readonly norms: { readonly isotropic: number; readonly dm: number; readonly anisotropic: number };
+}
+
+export function decomposeExchange(m: Mat3): ExchangeDecomposition {
+  const isotropic = trace3(m) / 3;
+  const dm = axialVector3(m);
+  const anisotropic = symmetricTracelessPart3(m);
+  return {
+    isotropic,
+    dm,
+    anisotropic,
+    norms: { isotropic: Math.abs(isotropic), dm: norm3(dm), anisotropic: normMat3(anisotropic) },
+  };
+}
+
+/**
+ * Principal-axis description of a symmetric traceless tensor T as D (S.n)^2 + E ((S.x')^2 -
+ * (S.y')^2) up to a constant. In the principal frame T = diag(E - D/3, -E - D/3, 2D/3), so with
+ * n the eigenvector of the eigenvalue of largest magnitude lz: D = 3 lz / 2 and E = (lx - ly)/2
+ * with lx >= ly; this choice gives 0 <= E <= |D|/3 (derivable from lx + ly + lz = 0).
+ */
+export interface PrincipalAnisotropy {
+  readonly eigenvalues: Vec3;
+  readonly eigenvectors: readonly [Vec3, Vec3, Vec3];
+  /** Main axis n (eigenvector of the largest-magnitude eigenvalue); null when T = 0. */
+  readonly axis: Vec3 | null;
+  readonly dAxial: number;
+  readonly eRhombic: number;
+}
+
+export function principalAnisotropy(t: Mat3): PrincipalAnisotropy {
+  const eig = symmetricEigen3(t);
+  const [l0, l1, l2] = eig.values;
+  const [v0, , v2] = eig.vectors;
+  if (l0 === 0 && l1 === 0 && l2 === 0) {
+    return { eigenvalues: eig.values, eigenvectors: eig.vectors, axis: null, dAxial: 0, eRhombic: 0 };
+  }
+  // The largest magnitude is at one end of the ascending list.
+  const zIsTop = Math.abs(l2) >= Math.abs(l0);
+  const lz = zIsTop ? l2 : l0;
+  const [lx, ly] = zIsTop ? [l1, l0] : [l2, l1];
+  return {
+    eigenvalues: eig.values,
+    eigenvectors: eig.vectors,
+    axis: canonicalAxis(zIsTop ? v2 : v0),
+    dAxial: 1.5 * lz,
+    eRhombic: (lx - ly) / 2,
+  };
+}
+
+/** Parts of a single-ion tensor A in S_i . A . S_i. */
+export interface SingleIonDecomposition {
+  /** tr(A)/3: multiplies S.S = S(S+1), a constant. */
+  readonly isotropic: number;
+  /** Symmetric traceless part: the physical anisotropy. */
+  readonly anisotropic: Mat3;
+  /**
+   * Axial vector of the antisymmetric part. It should vanish: A_ab S^a S^b with antisymmetric A
+   * equals (i/2) A_ab eps_abc S^c, an imaginary field (derivable from [S^a, S^b] = i eps_abc S^c),
+   * so a Hermitian Hamiltonian has symmetric A.
+   */
+  readonly antisymmetric: Vec3;
+  readonly hasAntisymmetricPart: boolean;
+  readonly principal: PrincipalAnisotropy;
+}
+
+export function decomposeSingleIon(a: Mat3, relativeTolerance = 1e-9): SingleIonDecomposition {
+  const antisymmetric = axialVector3(a);
+  const anisotropic = symmetricTracelessPart3(a);
+  return {
+    isotropic: trace3(a) / 3,
+    anisotropic,
+    antisymmetric,
+    hasAntisymmetricPart: norm3(antisymmetric) > relativeTolerance * Math.max(normMat3(a), Number.MIN_VALUE),
+    principal: principalAnisotropy(anisotropic),
+  };
+}
+
+/** Parts of a g-tensor (dimensionless), in the convention h = muB g^T B of physics-notes 2. */
+export interface GTensorDecomposition {
+  /** Isotropic g = tr(g)/3. */
+  readonly isotropic: number;
+  /** Symmetric traceless part. */
+  readonly anisotropic: Mat3;
+  /** Axial vector of the antisymmetric part (same convention as the DM vector). */
+  readonly antisymmetric: Vec3;
+  /**
+   * True when the antisymmetric part is non-negligible. g-tensors are conventionally quoted
+   * symmetric (only g g^T is fixed by resonance data; common practice, no source), so a
+   * non-symmetric entry is usually a transcription slip worth flagging.
+   */
+  readonly hasAntisymmetricPart: boolean;
+  /** Principal values of the symmetric part, ascending, and their axes. */
+  readonly principalValues: Vec3;
+  readonly principalAxes: readonly [Vec3, Vec3, Vec3];
+}
+
+export function decomposeGTensor(g: Mat3, relativeTolerance = 1e-9): GTensorDecomposition {
+  const antisymmetric = axialVector3(g);
+  const eig = symmetricEigen3(symmetricPart3(g));
+  return {
+    isotropic: trace3(g) / 3,
+    anisotropic: symmetricTracelessPart3(g),
+    antisymmetric,
+    hasAntisymmetricPart: norm3(antisymmetric) > relativeTolerance * Math.max(normMat3(g), Number.MIN_VALUE),
+    principalValues: eig.values,
+    principalAxes: eig.vectors,
+  };
+}
+
+// ---------------------------------------------------------------------------------------------
+// Classification
+// ---------------------------------------------------------------------------------------------
+
+export type SymmetryClass = "su2" | "u1" | "none";
+
+export type FindingKind =
+  | "exchange-anisotropy"
+  | "dm"
+  | "off-diagonal-symmetric"
+  | "single-ion"
+  | "single-ion-rhombic"
+  | "non-uniform-field"
+  | "transverse-field";
+
+/**
+ * One term that breaks SU(2) (or, for field findings, the symmetry H0 leaves).
+ *  - For exchange and single-ion findings, `residual`/`axis` is the symmetry left by this one
+ *    component added to an isotropic Heisenberg model (e.g. a DM vector alone leaves U(1) about D).
+ *  - For field findings, it is the symmetry of the full H (H0 plus all fields): fields only break
+ *    jointly (one field alone is always compatible with some axis).
+ */
+export interface SymmetryFinding {
+  /** First caller id of the term; `ids` lists all ids merged into it (same pair or site). */
+  readonly id: string;
+  readonly ids: readonly string[];
+  readonly kind: FindingKind;
+  readonly residual: "u1" | "none";
+  readonly axis: Vec3 | null;
+  /** Size of the breaking part in input energy units (|D|, ||T||_F, or field deviation). */
+  readonly magnitude: number;
+  /** Whether the term commutes with S.n for the U(1) axis n of H0 (null when H0 has none). */
+  readonly compatibleWithAxis: boolean | null;
+  /** One sentence on the consequence for the q = 0 resonance. */
+  readonly detail: string;
+}
+
+/** A remark that does not affect the classification (ignored or malformed input parts). */
+export interface SymmetryNote {
+  readonly id: string;
+  readonly message: string;
+}
+
+export interface BondTensorInput {
+  readonly id: string;
+  /** Exchange matrix in S_i . matrix . S_j. */
+  readonly matrix: Mat3;
+  /**
+   * Optional site pair (i, j). When given, bonds on the same unordered pair are summed before
+   * classification (S_j . M . S_i = S_i . M^T . S_j for i != j), because only the sum per pair
+   * is an operator of its own: bilinears S_i^a S_j^b on distinct pairs are linearly independent.
+   */
+  readonly sites?: readonly [number, number];
+}
+
+export interface SingleIonTensorInput {
+  readonly id: string;
+  /** Tensor in S_i . matrix . S_i. */
+  readonly matrix: Mat3;
+  /** Spin length S of the site. */
+  readonly spin: number;
+  /** Optional site index: terms on the same site are summed. */
+  readonly site?: number;
+}
+
+export interface FieldInput {
+  readonly id: string;
+  /** Effective field h_i = muB g_i^T B in energy units; H contains -h_i . S_i. */
+  readonly vector: Vec3;
+  /** Optional site index: fields on the same site are summed. Without it each entry is a site. */
+  readonly site?: number;
+}
+
+export interface SymmetryInput {
+  readonly bonds: readonly BondTensorInput[];
+  readonly singleIon: readonly SingleIonTensorInput[];
+  readonly fields: readonly FieldInput[];
+  /**
+   * Energy scale for the tolerances. Default: the largest Frobenius norm of any exchange or
+   * single-ion tensor, or the largest field norm, whichever is larger.
+   */
+  readonly scale?: number;
+  /** Relative tolerance (default 1e-9): a part counts as zero when below scale * tolerance. */
+  readonly relativeTolerance?: number;
+}
+
+export interface SymmetryClassification {
+  /** Symmetry of H0 (exchange + single-ion, no Zeeman term). */
+  readonly h0: SymmetryClass;
+  readonly h0Axis: Vec3 | null;
+  /** Symmetry of the full H including the Zeeman term. */
+  readonly full: SymmetryClass;
+  readonly fullAxis: Vec3 | null;
+  /** All sites see the same effective field (within tolerance); true when there are no fields. */
+  readonly fieldsUniform: boolean;
+  /**
+   * Every non-zero field is parallel to the axis H0 leaves: to h0Axis when H0 is U(1); to one
+   * common axis when H0 is SU(2); for H0 without continuous symmetry only when all fields vanish.
+   */
+  readonly fieldsParallelToAxis: boolean;
+  /** True when some field is non-zero. */
+  readonly hasField: boolean;
+  readonly breaking: readonly SymmetryFinding[];
+  readonly notes: readonly SymmetryNote[];
+  /** Absolute tolerance used (energy units). */
+  readonly tolerance: number;
+}
+
+/** Sign convention for reported axes: first component of magnitude > 1e-12 made positive. */
+export function canonicalAxis(n: Vec3): Vec3 {
+  for (const c of n) {
+    if (Math.abs(c) > 1e-12) return c < 0 ? scale3(n, -1) : n;
+  }
+  return n;
+}
+
+/**
+ * derivable: [H_term, S.n] = 0 for a bilinear S_i . J . S_j iff [J, [n]_x] = 0. An infinitesimal
+ * rotation by theta about n sends S -> S + theta n x S = (1 + theta [n]_x) S on every site, so
+ * S_i . J . S_j changes by theta S_i . ([n]_x^T J + J [n]_x) . S_j = theta S_i . [J, [n]_x] . S_j
+ * ([n]_x^T = -[n]_x). The commutant of [n]_x (eigenvalues 0, +i, -i, all distinct) consists of
+ * the polynomials in [n]_x: a*1 + c*[n]_x + b*[n]_x^2 with [n]_x^2 = n n^T - 1, i.e. exactly the
+ * form a*1 + b*n n^T + c*[n]_x (DM vector parallel to n). The same holds for S_i . A . S_i with
+ * symmetric A (then c = 0). On the complement of the commutant the map X -> [X, [n]_x] has
+ * singular values 1 or 2 (eigenvalue differences of [n]_x), so the commutator norm is within a
+ * factor 2 of the distance to the allowed form: a sound residual to compare with the tolerance.
+ */
+export function rotationResidual(m: Mat3, n: Vec3): number {
+  return normMat3(commutator3(m, crossMatrix3(n)));
+}
+
+interface AnisotropicTerm {
+  readonly ids: string[];
+  readonly source: "bond" | "single-ion";
+  /** Matrix used for the commutator test (full exchange matrix, or symmetric single-ion part). */
+  readonly matrix: Mat3;
+  readonly dm: Vec3;
+  readonly anisotropic: Mat3;
+}
+
+function dedupeAxes(axes: readonly Vec3[]): Vec3[] {
+  const out: Vec3[] = [];
+  for (const a of axes) {
+    if (!out.some((b) => Math.abs(dot3(a, b)) > 1 - 1e-12)) out.push(a);
+  }
+  return out;
+}
+
+/**
+ * Axes n for which a single term can commute with S.n: its DM direction when D != 0 (then n must
+ * be parallel to D), else the eigenvectors of non-degenerate eigenvalues of its symmetric
+ * traceless part (for the allowed form b (n n^T - 1/3) the eigenvalue 2b/3 is simple, with
+ * eigenvector n). Any common axis of all terms is among the candidates of each single term.
+ */
+function candidateAxes(term: AnisotropicTerm, tolerance: number): Vec3[] {
+  const out: Vec3[] = [];
+  const d = normalize3(term.dm);
+  if (d && norm3(term.dm) > tolerance) out.push(canonicalAxis(d));
+  const eig = symmetricEigen3(term.anisotropic);
+  const [l0, l1, l2] = eig.values;
+  const simple = [l1 - l0 > tolerance, l1 - l0 > tolerance && l2 - l1 > tolerance, l2 - l1 > tolerance];
+  simple.forEach((isSimple, k) => {
+    const v = eig.vectors[k];
+    if (isSimple && v) out.push(canonicalAxis(v));
+  });
+  return dedupeAxes(out);
+}
+
+/** The symmetry left by one tensor alone: the first of its candidate axes that it commutes with. */
+function singleTermAxis(matrix: Mat3, term: AnisotropicTerm, tolerance: number): Vec3 | null {
+  for (const n of candidateAxes(term, tolerance)) {
+    if (rotationResidual(matrix, n) <= tolerance) return n;
+  }
+  return null;
+}
+
+function isDiagonal(m: Mat3, tolerance: number): boolean {
+  return Math.hypot(m[0][1], m[0][2], m[1][2], m[1][0], m[2][0], m[2][1]) <= tolerance;
+}
+
+function fmtAxis(n: Vec3): string {
+  return `(${n.map((c) => (Math.abs(c) < 5e-13 ? "0" : c.toPrecision(4))).join(", ")})`;
+}
+
+function maxOf(values: readonly number[]): number {
+  return values.reduce((a, b) => Math.max(a, b), 0);
+}
+
+/**
+ * Classifies H0 and the full H. H0: SU(2) when every exchange matrix is a multiple of 1 and every
+ * single-ion tensor (S >= 1) is a multiple of 1; U(1) about n when every term commutes with S.n
+ * (see `rotationResidual`); none otherwise. Full H: [S.n, h_i . S_i] = i (n x h_i) . S_i
+ * (derivable from [S^a, S^b] = i eps_abc S^c), so the Zeeman term conserves S.n iff every h_i is
+ * parallel to n; with SU(2) H0 any common field direction serves as n.
+ */
+export function classifySymmetry(input: SymmetryInput): SymmetryClassification {
+  const relativeTolerance = input.relativeTolerance ?? 1e-9;
+  const notes: SymmetryNote[] = [];
+
+  // Sum bonds per unordered site pair where the caller gave pairs.
+  const bondGroups: { ids: string[]; matrix: Mat3 }[] = [];
+  const pairIndex = new Map<string, number>();
+  for (const bond of input.bonds) {
+    if (!bond.sites) {
+      bondGroups.push({ ids: [bond.id], matrix: bond.matrix });
+      continue;
+    }
+    const [i, j] = bond.sites;
+    const oriented = i <= j ? bond.matrix : transpose3(bond.matrix);
+    const key = `${Math.min(i, j)}:${Math.max(i, j)}`;
+    const at = pairIndex.get(key);
+    const group = at === undefined ? undefined : bondGroups[at];
+    if (group) {
+      group.ids.push(bond.id);
+      group.matrix = addMat3(group.matrix, oriented);
+    } else {
+      pairIndex.set(key, bondGroups.length);
+      bondGroups.push({ ids: [bond.id], matrix: oriented });
+    }
+  }
+
+  // Single-ion terms: S = 1/2 terms are constants (S^a S^b + S^b S^a = delta_ab / 2 for S = 1/2,
+  // derivable from the Pauli algebra), so their symmetric part drops out; the caller warns.
+  const ionGroups: { ids: string[]; matrix: Mat3 }[] = [];
+  const siteIndex = new Map<number, number>();
+  for (const ion of input.singleIon) {
+    const sym = symmetricPart3(ion.matrix);
+    if (normMat3(subMat3(ion.matrix, sym)) > relativeTolerance * Math.max(normMat3(ion.matrix), Number.MIN_VALUE)) {
+      notes.push({
+        id: ion.id,
+        message: "The single-ion tensor has an antisymmetric part; it is not Hermitian and was ignored (only the symmetric part counts).",
+      });
+    }
+    if (!(ion.spin > 0.5)) {
+      notes.push({
+        id: ion.id,
+        message: `For spin ${ion.spin} every single-ion term S.A.S is a constant; it was ignored for the symmetry.`,
+      });
+      continue;
+    }
+    const at = ion.site === undefined ? undefined : siteIndex.get(ion.site);
+    const group = at === undefined ? undefined : ionGroups[at];
+    if (group) {
+      group.ids.push(ion.id);
+      group.matrix = addMat3(group.matrix, sym);
+    } else {
+      if (ion.site !== undefined) siteIndex.set(ion.site, ionGroups.length);
+      ionGroups.push({ ids: [ion.id], matrix: sym });
+    }
+  }
+
+  // Fields per site.
+  const fieldGroups: { ids: string[]; vector: Vec3 }[] = [];
+  const fieldSite = new Map<number, number>();
+  for (const f of input.fields) {
+    const at = f.site === undefined ? undefined : fieldSite.get(f.site);
+    const group = at === undefined ? undefined : fieldGroups[at];
+    if (group) {
+      group.ids.push(f.id);
+      group.vector = [group.vector[0] + f.vector[0], group.vector[1] + f.vector[1], group.vector[2] + f.vector[2]];
+    } else {
+      if (f.site !== undefined) fieldSite.set(f.site, fieldGroups.length);
+      fieldGroups.push({ ids: [f.id], vector: f.vector });
+    }
+  }
+
+  const scale =
+    input.scale ??
+    Math.max(
+      maxOf(bondGroups.map((b) => normMat3(b.matrix))),
+      maxOf(ionGroups.map((s) => normMat3(s.matrix))),
+      maxOf(fieldGroups.map((f) => norm3(f.vector))),
+    );
+  const tolerance = relativeTolerance * scale;
+
+  // Terms that break SU(2).
+  const terms: AnisotropicTerm[] = [];
+  for (const b of bondGroups) {
+    const d = decomposeExchange(b.matrix);
+    if (d.norms.dm > tolerance || d.norms.anisotropic > tolerance) {
+      terms.push({ ids: b.ids, source: "bond", matrix: b.matrix, dm: d.dm, anisotropic: d.anisotropic });
+    }
+  }
+  for (const s of ionGroups) {
+    const t = symmetricTracelessPart3(s.matrix);
+    if (normMat3(t) > tolerance) {
+      terms.push({ ids: s.ids, source: "single-ion", matrix: s.matrix, dm: [0, 0, 0], anisotropic: t });
+    }
+  }
+
+  // H0 class. Candidates come from the strongest few terms (best conditioned axes); since any
+  // common axis is a candidate of every term, one term would suffice in exact arithmetic.
+  let h0: SymmetryClass = "su2";
+  let h0Axis: Vec3 | null = null;
+  if (terms.length > 0) {
+    h0 = "none";
+    const strength = (t: AnisotropicTerm): number => Math.max(norm3(t.dm), normMat3(t.anisotropic));
+    const strongest = [...terms].sort((a, b) => strength(b) - strength(a)).slice(0, 3);
+    const candidates = dedupeAxes(strongest.flatMap((t) => candidateAxes(t, tolerance)));
+    for (const n of candidates) {
+      if (terms.every((t) => rotationResidual(t.matrix, n) <= tolerance)) {
+        h0 = "u1";
+        h0Axis = n;
+        break;
+      }
+    }
+  }
+
+  // Fields.
+  const vectors = fieldGroups.map((f) => f.vector);
+  const nonZero = vectors.filter((v) => norm3(v) > tolerance);
+  const hasField = nonZero.length > 0;
+  const meanField: Vec3 =
+    vectors.length === 0
+      ? [0, 0, 0]
+      : scale3(
+          vectors.reduce<Vec3>((s, v) => [s[0] + v[0], s[1] + v[1], s[2] + v[2]], [0, 0, 0]),
+          1 / vectors.length,
+        );
+  const fieldsUniform = vectors.every((v) => norm3(sub3(v, meanField)) <= tolerance);
+  const largest = nonZero.reduce<Vec3 | null>((best, v) => (best === null || norm3(v) > norm3(best) ? v : best), null);
+  const commonDirection = largest ? normalize3(largest) : null;
+  const parallelTo = (n: Vec3): boolean => nonZero.every((v) => norm3(cross3(v, n)) <= tolerance);
+  const allParallel = commonDirection === null || parallelTo(commonDirection);
+
+  let full: SymmetryClass;
+  let fullAxis: Vec3 | null;
+  let fieldsParallelToAxis: boolean;
+  if (!hasField) {
+    full = h0;
+    fullAxis = h0Axis;
+    fieldsParallelToAxis = true;
+  } else if (h0 === "su2") {
+    fieldsParallelToAxis = allParallel;
+    full = allParallel ? "u1" : "none";
+    fullAxis = allParallel && commonDirection ? canonicalAxis(commonDirection) : null;
+  } else if (h0 === "u1" && h0Axis) {
+    fieldsParallelToAxis = parallelTo(h0Axis);
+    full = fieldsParallelToAxis ? "u1" : "none";
+    fullAxis = fieldsParallelToAxis ? h0Axis : null;
+  } else {
+    fieldsParallelToAxis = false;
+    full = "none";
+    fullAxis = null;
+  }
+
+  const uniformFieldDirection = hasField && fieldsUniform && commonDirection ? commonDirection : null;
+  const breaking: SymmetryFinding[] = [];
+  const compatible = (m: Mat3): boolean | null => (h0Axis ? rotationResidual(m, h0Axis) <= tolerance : null);
+
+  for (const term of terms) {
+    const id = term.ids[0] ?? "";
+    if (term.source === "bond") {
+      const dmNorm = norm3(term.dm);
+      if (dmNorm > tolerance) {
+        const dmMatrix = scaleMat3(crossMatrix3(term.dm), -1); // antisymmetric part = -[D]_x
+        const axis = canonicalAxis(normalize3(term.dm) ?? [0, 0, 1]);
+        breaking.push({
+          id,
+          ids: term.ids,
+          kind: "dm",
+          residual: "u1",
+          axis,
+          magnitude: dmNorm,
+          compatibleWithAxis: compatible(dmMatrix),
+          detail: dmDetail(axis, uniformFieldDirection, tolerance / Math.max(dmNorm, Number.MIN_VALUE)),
+        });
+      }
+      const anisoNorm = normMat3(term.anisotropic);
+      if (anisoNorm > tolerance) {
+        const alone: AnisotropicTerm = { ...term, dm: [0, 0, 0] };
+        const axis = singleTermAxis(term.anisotropic, alone, tolerance);
+        const diagonal = isDiagonal(term.anisotropic, tolerance);
+        const kind: FindingKind = axis || diagonal ? "exchange-anisotropy" : "off-diagonal-symmetric";
+        const eig = symmetricEigen3(addMat3(term.anisotropic, scaleMat3(IDENTITY3, trace3(term.matrix) / 3)));
+        breaking.push({
+          id,
+          ids: term.ids,
+          kind,
+          residual: axis ? "u1" : "none",
+          axis,
+          magnitude: anisoNorm,
+          compatibleWithAxis: compatible(term.anisotropic),
+          detail: exchangeAnisotropyDetail(kind, axis, eig.values),
+        });
+      }
+    } else {
+      const p = principalAnisotropy(term.anisotropic);
+      const rhombic = Math.abs(p.eRhombic) > tolerance;
+      const axis = rhombic ? null : p.axis;
+      breaking.push({
+        id,
+        ids: term.ids,
+        kind: rhombic ? "single-ion-rhombic" : "single-ion",
+        residual: rhombic ? "none" : "u1",
+        axis,
+        magnitude: normMat3(term.anisotropic),
+        compatibleWithAxis: compatible(term.anisotropic),
+        detail: rhombic
+          ? `A rhombic single-ion term (D = ${p.dAxial.toPrecision(4)}, E = ${p.eRhombic.toPrecision(4)}) leaves no continuous spin rotation: no spin component is conserved, so the q = 0 resonance shifts and splits even with the field along the main axis.`
+          : `A single-ion anisotropy D (S.n)^2 (D = ${p.dAxial.toPrecision(4)}, n = ${fmtAxis(p.axis ?? [0, 0, 1])}) on a spin S >= 1 breaks SU(2) down to U(1) about n: the q = 0 resonance is no longer pinned at the Zeeman energy and acquires a zero-field splitting that depends on the field direction.`,
+      });
+    }
+  }
+
+  if (hasField && !fieldsUniform) {
+    fieldGroups.forEach((f) => {
+      const deviation = norm3(sub3(f.vector, meanField));
+      if (deviation <= tolerance) return;
+      breaking.push({
+        id: f.ids[0] ?? "",
+        ids: f.ids,
+        kind: "non-uniform-field",
+        residual: full === "none" ? "none" : "u1",
+        axis: fullAxis,
+        magnitude: deviation,
+        compatibleWithAxis: h0Axis ? norm3(cross3(f.vector, h0Axis)) <= tolerance : null,
+        detail:
+          "Site-dependent effective fields (site-dependent g-tensors, or a staggered field from DM) defeat the Larmor theorem even for an SU(2) H0: the q = 0 resonance is no longer pinned at the Zeeman energy, and a staggered field can open a gap in a chain.",
+      });
+    });
+  }
+  if (hasField && h0 === "u1" && h0Axis) {
+    const axis = h0Axis;
+    fieldGroups.forEach((f) => {
+      const transverse = norm3(cross3(f.vector, axis));
+      if (transverse <= tolerance) return;
+      breaking.push({
+        id: f.ids[0] ?? "",
+        ids: f.ids,
+        kind: "transverse-field",
+        residual: "none",
+        axis: null,
+        magnitude: transverse,
+        compatibleWithAxis: false,
+        detail: `The field has a component ${transverse.toPrecision(4)} transverse to the U(1) axis ${fmtAxis(axis)} of H0, so no spin component is conserved: the q = 0 resonance shifts and mixes with other modes, and the U(1) selection rules are lost.`,
+      });
+    });
+  }
+
+  return {
+    h0,
+    h0Axis,
+    full,
+    fullAxis,
+    fieldsUniform,
+    fieldsParallelToAxis,
+    hasField,
+    breaking,
+    notes,
+    tolerance,
+  };
+}
+
+/** `angleTolerance` = tolerance / |D|: the angle at which the DM term's own residual reaches it. */
+function dmDetail(axis: Vec3, uniformField: Vec3 | null, angleTolerance: number): string {
+  const base = "A DM vector breaks SU(2): the q = 0 resonance is no longer pinned at the Zeeman energy";
+  if (!uniformField) {
+    return `${base}; for a uniform DM chain with D parallel to the field it splits into a doublet, otherwise it shifts and broadens.`;
+  }
+  const parallel = norm3(cross3(axis, uniformField)) <= angleTolerance;
+  return parallel
+    ? `${base}; here D is parallel to the field, so for a uniform DM chain the line splits into a doublet (physics-notes section 4).`
+    : `${base}; here D is not parallel to the field, so no spin component is conserved and the line can shift, split and broaden.`;
+}
+
+function exchangeAnisotropyDetail(kind: FindingKind, axis: Vec3 | null, principal: Vec3): string {
+  const values = principal.map((v) => v.toPrecision(4)).join(", ");
+  if (axis) {
+    return `An XXZ-type exchange anisotropy about n = ${fmtAxis(axis)} (principal values ${values}) breaks SU(2) down to U(1) about n: the q = 0 resonance is no longer pinned at the Zeeman energy and can shift and broaden, although S.n stays conserved with the field along n.`;
+  }
+  if (kind === "off-diagonal-symmetric") {
+    return `A symmetric off-diagonal (Gamma-type) exchange with three different principal values (${values}) leaves no continuous spin rotation: no spin component is conserved and the q = 0 resonance can shift, split and broaden.`;
+  }
+  return `An XYZ exchange with three different principal values (${values}) leaves no continuous spin rotation: no spin component is conserved and the q = 0 resonance can shift, split and broaden.`;
+}
+
+// ---------------------------------------------------------------------------------------------
+// Larmor protection
+// ---------------------------------------------------------------------------------------------
+
+export interface ResonanceProtection {
+  /** True iff H0 is SU(2) and the effective field is uniform (physics-notes section 4). */
+  readonly protected: boolean;
+  /** Ids of every term that breaks the protection (empty when protected). */
+  readonly breakingIds: readonly string[];
+  readonly reason: string;
+}
+
+/**
+ * Larmor theorem (physics-notes section 4): if [H0, S^a_tot] = 0 for all a and the Zeeman term is
+ * -h . S_tot with one h for all sites, then [H, S^-_n] = |h| S^-_n for the spin lowering
+ * operator about h, so the q = 0 transverse response is a single line at the Zeeman energy |h|.
+ * A uniform but anisotropic g-tensor only changes h = muB g^T B, so it keeps the protection.
+ */
+export function resonanceProtection(c: SymmetryClassification): ResonanceProtection {
+  if (c.h0 === "su2" && c.fieldsUniform) {
+    return {
+      protected: true,
+      breakingIds: [],
+      reason:
+        "H0 is SU(2)-symmetric and every site sees the same effective field, so by the Larmor theorem the q = 0 resonance sits exactly at the Zeeman energy for any couplings.",
+    };
+  }
+  const breakingIds = [...new Set(c.breaking.flatMap((f) => f.ids))];
+  const why =
+    c.h0 !== "su2"
+      ? "H0 is not SU(2)-symmetric"
+      : "the effective field is not the same on every site";
+  return {
+    protected: false,
+    breakingIds,
+    reason: `The q = 0 resonance is not protected because ${why}: it may shift, split and broaden, so inferences that rely on the Larmor pinning do not hold.`,
+  };
+}
+
+/** Convenience: uniform effective field h = muB g^T B for one g-tensor (energy units of muB B). */
+export function effectiveField(g: Mat3, bohrMagnetonTimesFieldVector: Vec3): Vec3 {
+  return mulMatVec3(transpose3(g), bohrMagnetonTimesFieldVector);
+}

@@ -1,0 +1,78 @@
+// Parser tests: the tree survives mistakes, several errors per file, exact ranges, no throws.
+import { describe, expect, it } from "vitest";
+import { parseSpw } from "./parse";
+
+const VALID = `# comment
+model "m" {
+  spin 1/2
+  convention antiferro-positive
+  lattice chain sites Cu
+  let J1 = 14.2 K
+  let w = 3 cm^-1
+  exchange heisenberg(J1) on Cu -> Cu + (1), shell 2
+  exchange dm(0.1 * J1, (0, 0, 1)) on Cu -> Cu + (1)
+  anisotropy Cu D = 0.5 K E = 0.1 K axis (0, 0, 1)
+  g Cu = [[2, 0, 0], [0, 2, 0], [0, 0, 2.1]]
+  field 3.5 T along (0, 0, 1) sweep 0 T to 10 T steps 20
+  cluster 20 periodic
+  probe 240 GHz
+  expect u1 about (0, 0, 1)
+}
+`;
+
+describe("parseSpw", () => {
+  it("parses every statement kind of a valid file without diagnostics", () => {
+    const r = parseSpw(VALID);
+    expect(r.diagnostics).toEqual([]);
+    const kinds = r.ast.models[0]?.statements.map((s) => s.kind);
+    expect(kinds).toEqual(["spin", "convention", "latticePreset", "let", "let", "exchange", "exchange", "anisotropy", "g", "field", "cluster", "probe", "expect"]);
+    expect(r.comments.length).toBe(1);
+  });
+
+  it("reads a unit with a power after a number (3 cm^-1)", () => {
+    const r = parseSpw(VALID);
+    const let2 = r.ast.models[0]?.statements[4];
+    expect(let2?.kind === "let" && let2.value.kind === "number" ? let2.value.unit : null).toMatchObject({ name: "cm", power: -1 });
+  });
+
+  it("respects precedence: 2 + 3 * 4 ^ 2 groups as 2 + (3 * (4 ^ 2))", () => {
+    const r = parseSpw('model "m" { let x = 2 + 3 * 4 ^ 2 }');
+    const s = r.ast.models[0]?.statements[0];
+    expect(s?.kind).toBe("let");
+    if (s?.kind !== "let" || s.value.kind !== "binary") throw new Error("not a binary expression");
+    expect(s.value.op).toBe("+");
+    expect(s.value.right.kind === "binary" && s.value.right.op).toBe("*");
+  });
+
+  it("reports three independent mistakes and keeps the statements between them", () => {
+    const text = `model "m" {
+  let = 5 K
+  lattice chain
+  let J = 2 K +
+  convention antiferro-positive
+  field 3 T along (0, 0, 1
+  cluster 8 periodic
+}`;
+    const r = parseSpw(text);
+    const syntax = r.diagnostics.filter((d) => d.code === "spw-syntax");
+    expect(syntax.length).toBe(3);
+    const lines = syntax.map((d) => text.slice(0, d.span.start).split("\n").length);
+    expect(lines).toEqual([2, 4, 6]);
+    const kinds = r.ast.models[0]?.statements.map((s) => s.kind);
+    expect(kinds).toContain("latticePreset");
+    expect(kinds).toContain("convention");
+    expect(kinds).toContain("cluster");
+  });
+
+  it("never throws on hostile input and keeps ranges inside the text", () => {
+    const inputs = ["", "}", "{{{{", "model", 'model "', "model \"x\" { let x = ((((((((( }", "\u0000\uffff", "model \"x\" { exchange ( on -> + }"];
+    for (const t of inputs) {
+      const r = parseSpw(t);
+      for (const d of r.diagnostics) {
+        expect(d.span.start).toBeGreaterThanOrEqual(0);
+        expect(d.span.end).toBeLessThanOrEqual(t.length);
+        expect(d.span.end).toBeGreaterThanOrEqual(d.span.start);
+      }
+    }
+  });
+});
