@@ -2,6 +2,7 @@
 // A thin shell over the analysis facade: reads files, prints, sets the exit code. CLI layer.
 import { readFileSync, writeFileSync } from "node:fs";
 import { analyzeDocument, type DocumentAnalysis } from "../analysis/analyze";
+import { analysisJson } from "../analysis/json";
 import { exportCluster } from "./export";
 import { formatJson, formatSarif, formatText, type FileDiagnostics } from "./format";
 import { renderReport } from "./report";
@@ -13,6 +14,7 @@ const USAGE = `spinwright ${VERSION}: checks spin-model definition files (.spw)
 Usage:
   spinwright check FILE... [--format text|json|sarif] [--output PATH]
   spinwright report FILE...
+  spinwright analyze FILE... [--format json]
   spinwright export FILE [--cluster N | --cluster N,M] [--output PATH]
   spinwright help
 
@@ -108,6 +110,14 @@ export async function main(argv: readonly string[]): Promise<number> {
       case "report": {
         const results = analyzeFiles(files);
         output(results.map((r) => renderReport(r.file, r.analysis)).join("\n"), options);
+        return hasErrors(results) ? 1 : 0;
+      }
+      case "analyze": {
+        const results = analyzeFiles(files);
+        const format = options.get("--format") ?? "json";
+        if (format !== "json") throw new UsageError(`analyze prints JSON only (--format json)`);
+        const objects = results.map((r) => analysisJson(r.file, r.analysis));
+        output(JSON.stringify(objects.length === 1 ? objects[0] : objects, null, 2), options);
         return hasErrors(results) ? 1 : 0;
       }
       case "export": {

@@ -5,6 +5,8 @@ import { fmt } from "../model/build";
 import { describeBond } from "../model/build";
 import { MEV_PER_GHZ, MEV_PER_K } from "../model/units";
 import { formatText } from "./format";
+import { describeClass, kindText } from "../analysis/symmetryCheck";
+import { MEV_PER_CM } from "../model/units";
 
 export function renderReport(file: string, a: DocumentAnalysis): string {
   const out: string[] = [];
@@ -42,6 +44,7 @@ export function renderReport(file: string, a: DocumentAnalysis): string {
   }
   if (m.field) out.push(`field: ${fmt(m.field.magnitudeT)} T along (${m.field.direction.map(fmt).join(", ")})`);
   if (m.cluster) out.push(`cluster: ${m.cluster.cells.join(" x ")} cells, ${m.cluster.boundary}`);
+  if (a.physics) out.push(...physicsLines(a));
   if (a.diagnostics.length > 0) {
     out.push("diagnostics:");
     out.push(formatText([{ file, lines: a.lines, diagnostics: a.diagnostics }]).replace(/^/gm, "  "));
@@ -59,4 +62,36 @@ function gText(g: readonly (readonly number[])[]): string {
   if (off === 0 && d[0] === d[1] && d[1] === d[2]) return fmt(d[0] ?? 0);
   if (off === 0) return `(${d.map(fmt).join(", ")})`;
   return "tensor";
+}
+
+function physicsLines(a: DocumentAnalysis): string[] {
+  const p = a.physics;
+  if (!p) return [];
+  const out: string[] = [];
+  const at = (span: { start: number }) => {
+    const q = a.lines.positionAt(span.start);
+    return `line ${q.line + 1}`;
+  };
+  out.push(`symmetry (without the field): ${describeClass(p.symmetry.h0, p.symmetry.axis)}; with the field: ${describeClass(p.symmetry.full, p.symmetry.fullAxis)}`);
+  for (const b of p.symmetry.breaking) out.push(`  breaks SU(2): ${kindText(b.kind)} (${at(b.span)}): ${b.consequence}`);
+  if (p.couplings.length > 0)
+    out.push(`couplings: ${p.couplings.map((c) => `${c.name} ${c.character}${c.character === "antisymmetric" ? ` (|D| = ${fmt(c.dmMeV)} meV)` : ` (${fmt(c.valueMeV)} meV)`}`).join(", ")}`);
+  const frustrated = p.frustration.filter((f) => f.frustrated);
+  out.push(frustrated.length ? `frustrated cycles: ${frustrated.map((f) => f.cycle).join("; ")}` : "frustrated cycles: none");
+  const r = p.family.placement;
+  if (r) {
+    out.push(`family: ${p.family.description}; region: ${r.name} at ${r.parameter} = ${fmt(r.value)}`);
+    if (r.boundary)
+      out.push(`  nearest boundary: ${r.boundary.name} at ${fmt(r.boundary.value)} (${r.boundary.source}); relative distance ${r.distance === null ? "n/a" : fmt(r.distance)}`);
+    if (r.quantum) out.push(`  quantum picture: ${r.quantum.name} (${r.quantum.source})`);
+  } else out.push(`family: ${p.family.description}`);
+  const z = p.resonance;
+  if (z.zeemanMeV !== null && z.hasField)
+    out.push(
+      `Zeeman energy: ${fmt(z.zeemanMeV)} meV = ${fmt(z.zeemanGHz ?? 0)} GHz = ${fmt(z.zeemanK ?? 0)} K = ${fmt(z.zeemanMeV / MEV_PER_CM)} cm^-1 (g along the field ${fmt(z.gAlongField ?? 0)}, CODATA 2018)`,
+    );
+  if (z.probe) out.push(`probe: ${fmt(z.probe.frequencyGHz)} GHz, resonant at ${z.probe.resonanceFieldT === null ? "no single field (g is not uniform)" : `${fmt(z.probe.resonanceFieldT)} T`}`);
+  out.push(`q = 0 resonance: ${z.protected ? "protected" : "not protected"}: ${z.reason}`);
+  if (z.dmDoublet) out.push(`  uniform DM parallel to the field: the line becomes a doublet, tan θ = D/J = ${fmt(z.dmDoublet.dMeV / Math.abs(z.dmDoublet.jMeV))}`);
+  return out;
 }

@@ -33,9 +33,9 @@ export type RegionParameter = "J2/J1" | "J2/|J1|" | "Delta" | "D/J" | "J1";
  */
 export const VALIDITY = {
   "Bethe ansatz": "integrable point or line: exact ground state, magnetization curve, velocities",
-  "two-branch splitting": "gapless spin-1/2 chain with SU(2) or U(1) about the field, h << J, m << 1/2 (physics-notes 6)",
-  "two-magnon bound state": "near saturation, any chain: bound-state branch from the two-magnon problem (physics-notes 7)",
-  "one-magnon saturation field": "saturation from the one-magnon instability; multi-magnon bound states may go first for ferro J1 (physics-notes 5)",
+  "two-branch splitting": "gapless spin-1/2 chain with SU(2) or U(1) about the field, h << J, m << 1/2",
+  "two-magnon bound state": "near saturation, any chain: bound-state branch from the two-magnon problem",
+  "one-magnon saturation field": "saturation from the one-magnon instability; multi-magnon bound states may go first for ferro J1",
   "Majumdar-Ghosh dimer state": "exact dimer product ground state, E/N = -3 J1/8 (Majumdar & Ghosh 1969)",
   "spin-wave theory": "magnetically ordered phase, expansion about the classical order",
 } as const;
@@ -124,7 +124,7 @@ const WHITE_HUSE = "White & Huse, Phys. Rev. B 48, 3844 (1993)";
  * yet (house rule on names); the lead engineer should add the full citation after checking it.
  */
 const SPIN1_DC = "arXiv:1705.01558 (2017), DMRG level spectroscopy; value checked against the abstract only";
-const NOTES_2D = "physics-notes section 8 (from memory, debated)";
+const NOTES_2D = "quantum ranges as commonly quoted in the literature (from memory, debated; not checked against a single source)";
 const LUTTINGER_TISZA = "classical energy minimum over wave vectors (Luttinger-Tisza), derivable";
 
 const exact = (name: string, value: number, source: string): RegionBoundary => ({ name, value, source, uncertainty: 0 });
@@ -149,7 +149,7 @@ function j1j2ChainAxis(j1: number, j2: number): RegionAxis {
           name: "gapless Tomonaga-Luttinger liquid",
           source:
             value < 0
-              ? `${OKAMOTO_NOMURA} for J2 > 0; for ferro J2 the marginal coupling g0 ~ (J2c - J2) keeps its sign (physics-notes 6; extrapolation, from memory)`
+              ? `${OKAMOTO_NOMURA} for J2 > 0; for ferro J2 the marginal coupling g0 ~ (J2c - J2) keeps its sign (extrapolation, from memory)`
               : OKAMOTO_NOMURA,
           gapless: true,
           validFor: [...bethe, "two-branch splitting", "two-magnon bound state", "one-magnon saturation field"],
@@ -173,7 +173,7 @@ function j1j2ChainAxis(j1: number, j2: number): RegionAxis {
           source: OKAMOTO_NOMURA,
           gapless: true,
           validFor: ["two-magnon bound state", "one-magnon saturation field"],
-          notes: ["At J2c the marginal coupling g vanishes, so the two-branch splitting Delta -> 0 (physics-notes 6)."],
+          notes: ["At J2c the marginal coupling g vanishes, so the two-branch splitting Delta -> 0."],
         },
         {
           name: "Majumdar-Ghosh point (exact dimer ground state)",
@@ -214,7 +214,7 @@ function j1j2ChainAxis(j1: number, j2: number): RegionAxis {
         validFor: ["two-magnon bound state"],
         notes: [
           "Whether a (tiny) gap opens here is not settled by the sources at hand; gapless is left unknown.",
-          "Saturation: multi-magnon bound states can saturate before single magnons for ferro J1 (physics-notes 5).",
+          "Saturation: multi-magnon bound states can saturate before single magnons for ferro J1.",
         ],
       },
     ],
@@ -252,7 +252,7 @@ function xxzChainAxis(j: number, delta: number): RegionAxis {
         source: BETHE_XXZ,
         gapless: true,
         validFor: ["Bethe ansatz", "two-branch splitting", "two-magnon bound state"],
-        notes: ["Two-branch splitting: U(1) about z only with the field along z (physics-notes 6)."],
+        notes: ["Two-branch splitting: U(1) about z only with the field along z."],
       },
       {
         name: "Neel ordered, gapped (Ising-like)",

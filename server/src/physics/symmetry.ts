@@ -710,7 +710,7 @@ function dmDetail(axis: Vec3, uniformField: Vec3 | null, angleTolerance: number)
   }
   const parallel = norm3(cross3(axis, uniformField)) <= angleTolerance;
   return parallel
-    ? `${base}; here D is parallel to the field, so for a uniform DM chain the line splits into a doublet (physics-notes section 4).`
+    ? `${base}; here D is parallel to the field, so for a uniform DM chain the line splits into a doublet.`
     : `${base}; here D is not parallel to the field, so no spin component is conserved and the line can shift, split and broaden.`;
 }
 

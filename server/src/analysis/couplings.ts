@@ -1,0 +1,91 @@
+// Labels every exchange term antiferromagnetic, ferromagnetic or zero under the file's convention
+// (by the sign of its isotropic part in H = + sum S_i.J.S_j), and checks bond coordination
+// against the preset lattice. Analysis layer.
+import { diag, type Diagnostic } from "../base/diagnostics";
+import { bondKey, neighbourShells, PRESETS } from "../model/lattice";
+import type { ExchangeTerm, SpinModel } from "../model/model";
+import { decomposeExchange } from "../physics/symmetry";
+
+export type CouplingCharacter = "antiferro" | "ferro" | "zero" | "antisymmetric";
+
+export interface CouplingSummary {
+  readonly index: number;
+  readonly name: string;
+  readonly kind: string;
+  /** Isotropic part J = tr(J)/3 in H = + sum S_i.J.S_j, meV. */
+  readonly valueMeV: number;
+  /** The coupling's scale as written in the file (before the convention), meV. */
+  readonly writtenMeV: number;
+  readonly character: CouplingCharacter;
+  /** |D| of the antisymmetric part, meV. */
+  readonly dmMeV: number;
+  /** Norm of the symmetric traceless part, meV. */
+  readonly anisotropicMeV: number;
+  readonly bondsPerCell: number;
+  readonly shells: readonly number[];
+}
+
+export function termLabel(term: ExchangeTerm): string {
+  return term.couplingName ?? `${term.kind} #${term.index + 1}`;
+}
+
+export function summarizeCouplings(model: SpinModel): CouplingSummary[] {
+  const scale = Math.max(1e-300, ...model.exchanges.map((t) => Math.abs(decomposeExchange(t.matrixMeV).isotropic) + decomposeExchange(t.matrixMeV).norms.dm));
+  return model.exchanges.map((t) => {
+    const d = decomposeExchange(t.matrixMeV);
+    const tol = 1e-12 * scale;
+    const character: CouplingCharacter =
+      Math.abs(d.isotropic) > tol ? (d.isotropic > 0 ? "antiferro" : "ferro") : d.norms.dm > tol ? "antisymmetric" : "zero";
+    return {
+      index: t.index,
+      name: termLabel(t),
+      kind: t.kind,
+      valueMeV: d.isotropic,
+      writtenMeV: t.scaleMeV,
+      character,
+      dmMeV: d.norms.dm,
+      anisotropicMeV: d.norms.anisotropic,
+      bondsPerCell: t.bonds.length,
+      shells: [...new Set(t.bonds.map((b) => shellOf(model, b.distance)).filter((x): x is number => x !== null))],
+    };
+  });
+}
+
+/** Neighbour shell (1 = nearest) that a bond length belongs to on the model's lattice. */
+export function shellOf(model: SpinModel, distance: number): number | null {
+  const L = model.lattice;
+  if (!L) return null;
+  const shells = neighbourShells(L.vectors, L.sites.map((s) => s.position), 4).distances;
+  const k = shells.findIndex((d) => Math.abs(d - distance) < 1e-6 * Math.max(1, d));
+  return k < 0 ? null : k + 1;
+}
+
+/**
+ * On a preset lattice, the nearest-neighbour bonds carrying isotropic exchange should number
+ * coordination/2 per site; fewer usually means a missing bond direction.
+ */
+export function checkCoordination(model: SpinModel): Diagnostic[] {
+  const L = model.lattice;
+  const preset = L?.preset ? PRESETS[L.preset] : undefined;
+  if (!L || !preset) return [];
+  const nearest = new Set<string>();
+  let firstTerm: ExchangeTerm | null = null;
+  for (const t of model.exchanges) {
+    if (Math.abs(decomposeExchange(t.matrixMeV).isotropic) === 0) continue;
+    for (const b of t.bonds) {
+      if (shellOf(model, b.distance) !== 1) continue;
+      nearest.add(bondKey(b.from, b.to, b.offset));
+      firstTerm ??= t;
+    }
+  }
+  const expected = (preset.coordination * L.sites.length) / 2;
+  if (!firstTerm || nearest.size === expected) return [];
+  const perSite = (2 * nearest.size) / L.sites.length;
+  return [
+    diag(
+      "spw-coordination",
+      firstTerm.span,
+      `On the ${preset.name} lattice every site has ${preset.coordination} nearest neighbours, but these bonds give ${Number(perSite.toFixed(3))} per site. Use 'on shell 1' for all nearest-neighbour bonds, or add the missing directions.`,
+    ),
+  ];
+}

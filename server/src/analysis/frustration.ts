@@ -1,0 +1,73 @@
+// Frustrated bond cycles: the shortest cycles of the model's bond graph on a periodic cluster,
+// grouped by the couplings they contain. A cycle is frustrated when it holds an odd number of
+// antiferromagnetic bonds (physics layer, cycles.ts). Analysis layer.
+import { buildFiniteCluster } from "../model/cluster";
+import type { SpinModel } from "../model/model";
+import { shortestCycles, type CycleEdge } from "../physics/cycles";
+import { decomposeExchange } from "../physics/symmetry";
+import { termLabel } from "./couplings";
+
+export interface FrustrationGroup {
+  /** A readable name, e.g. "triangle J1-J1-J2". */
+  readonly cycle: string;
+  readonly length: number;
+  readonly couplings: readonly string[];
+  readonly frustrated: boolean | null;
+  readonly count: number;
+  /** Exchange terms on the cycle (indices into model.exchanges). */
+  readonly terms: readonly number[];
+}
+
+const CYCLE_NAMES: Record<number, string> = { 3: "triangle", 4: "square plaquette", 5: "pentagon", 6: "hexagon" };
+
+export function analyzeFrustration(model: SpinModel): FrustrationGroup[] {
+  const L = model.lattice;
+  if (!L || model.exchanges.length === 0) return [];
+  // A cluster large enough that lattice cycles are not confused with wrap-around ones.
+  const longest = Math.max(...model.exchanges.flatMap((t) => t.bonds.map((b) => Math.max(...b.offset.map(Math.abs), 0))), 1);
+  const side = Math.max(L.dimension === 1 ? 12 : L.dimension === 2 ? 6 : 4, 4 * longest + 1);
+  const built = buildFiniteCluster(model, new Array<number>(L.dimension).fill(side));
+  if (!built.ok || built.value.cluster.spins.length > 20000) return [];
+  const { cluster, bondTerms } = built.value;
+  // Sum the isotropic parts per site pair: a pair is one bond of the graph.
+  const pairs = new Map<string, { a: number; b: number; j: number; terms: Set<number> }>();
+  cluster.bonds.forEach((bond, k) => {
+    const a = Math.min(bond.i, bond.j);
+    const b = Math.max(bond.i, bond.j);
+    const key = `${a}:${b}`;
+    const entry = pairs.get(key) ?? { a, b, j: 0, terms: new Set<number>() };
+    entry.j += decomposeExchange(bond.matrix).isotropic;
+    entry.terms.add(bondTerms[k] ?? -1);
+    pairs.set(key, entry);
+  });
+  const scale = Math.max(0, ...[...pairs.values()].map((p) => Math.abs(p.j)));
+  const edges: CycleEdge[] = [];
+  const edgeTerms = new Map<string, number[]>();
+  for (const p of pairs.values()) {
+    if (Math.abs(p.j) <= 1e-12 * scale) continue;
+    const id = `${p.a}:${p.b}`;
+    edges.push({ a: p.a, b: p.b, sign: p.j > 0 ? 1 : -1, id });
+    edgeTerms.set(id, [...p.terms].sort((x, y) => x - y));
+  }
+  const result = shortestCycles({ vertexCount: cluster.spins.length, edges }, { maxCycles: 2000, maxWork: 5e6 });
+  const groups = new Map<string, { couplings: string[]; length: number; frustrated: boolean | null; count: number; terms: Set<number> }>();
+  for (const c of result.cycles) {
+    // Cycles that wind around the periodic cluster are artefacts of its size, not lattice loops.
+    if (c.vertices.length > 8 || c.vertices.length >= side) continue;
+    const terms = c.edgeIds.flatMap((id) => edgeTerms.get(id) ?? []);
+    const names = c.edgeIds.map((id) => (edgeTerms.get(id) ?? []).map((t) => { const term = model.exchanges[t]; return term ? termLabel(term) : "?"; }).join("+")).sort();
+    const key = `${c.vertices.length}|${names.join(",")}|${c.frustrated}`;
+    const g = groups.get(key) ?? { couplings: names, length: c.vertices.length, frustrated: c.frustrated, count: 0, terms: new Set<number>() };
+    g.count++;
+    terms.forEach((t) => g.terms.add(t));
+    groups.set(key, g);
+  }
+  return [...groups.values()].map((g) => ({
+    cycle: `${CYCLE_NAMES[g.length] ?? `${g.length}-cycle`} ${g.couplings.join("-")}`,
+    length: g.length,
+    couplings: g.couplings,
+    frustrated: g.frustrated,
+    count: g.count,
+    terms: [...g.terms],
+  }));
+}

@@ -1,0 +1,79 @@
+// The machine-readable analysis of one file (`spinwright analyze --format json`), documented in
+// docs/analysis.schema.json. Ranges are zero-based, as in LSP. Analysis layer.
+import type { DocumentAnalysis } from "./analyze";
+
+const round = (x: number | null | undefined, digits = 12): number | null =>
+  x === null || x === undefined || !Number.isFinite(x) ? null : Number(x.toPrecision(digits));
+
+export function analysisJson(file: string, a: DocumentAnalysis): Record<string, unknown> {
+  const p = a.physics;
+  const range = (span: { start: number; end: number }) => a.lines.range(span.start, span.end);
+  return {
+    file,
+    model: a.model?.name ?? null,
+    errors: a.diagnostics.filter((d) => d.severity === "error").length,
+    warnings: a.diagnostics.filter((d) => d.severity === "warning").length,
+    symmetry: p
+      ? {
+          h0: p.symmetry.h0,
+          axis: p.symmetry.axis?.map((x) => round(x)) ?? null,
+          full: p.symmetry.full,
+          fullAxis: p.symmetry.fullAxis?.map((x) => round(x)) ?? null,
+          breaking: p.symmetry.breaking.map((b) => ({
+            kind: b.kind,
+            range: range(b.span),
+            residual: b.residual,
+            residualAxis: b.axis?.map((x) => round(x)) ?? null,
+            magnitudeMeV: round(b.magnitudeMeV),
+            consequence: b.consequence,
+          })),
+        }
+      : null,
+    couplings:
+      p?.couplings.map((c) => ({
+        name: c.name,
+        kind: c.kind,
+        valueMeV: round(c.valueMeV),
+        character: c.character,
+        dmMeV: round(c.dmMeV),
+        anisotropicMeV: round(c.anisotropicMeV),
+        shells: c.shells,
+      })) ?? [],
+    frustration: p?.frustration.map((f) => ({ cycle: f.cycle, frustrated: f.frustrated, count: f.count })) ?? [],
+    region: p?.family.placement
+      ? {
+          family: p.family.placement.family,
+          description: p.family.description,
+          name: p.family.placement.name,
+          parameter: p.family.placement.parameter,
+          value: round(p.family.placement.value),
+          boundary: p.family.placement.boundary
+            ? { name: p.family.placement.boundary.name, value: p.family.placement.boundary.value, source: p.family.placement.boundary.source }
+            : null,
+          distance: round(p.family.placement.distance),
+          source: p.family.placement.source,
+          gapless: p.family.placement.gapless,
+          validFor: p.family.placement.validFor,
+          quantum: p.family.placement.quantum ?? null,
+        }
+      : null,
+    regionReason: p && !p.family.placement ? p.family.description : null,
+    resonance: p
+      ? {
+          protected: p.resonance.protected,
+          reason: p.resonance.reason,
+          zeemanMeV: round(p.resonance.zeemanMeV),
+          zeemanGHz: round(p.resonance.zeemanGHz),
+          zeemanK: round(p.resonance.zeemanK),
+          zeemanCm: round(p.resonance.zeemanCm),
+          gAlongField: round(p.resonance.gAlongField),
+          probe: p.resonance.probe
+            ? { frequencyGHz: round(p.resonance.probe.frequencyGHz), resonanceFieldT: round(p.resonance.probe.resonanceFieldT) }
+            : null,
+          dmDoublet: p.resonance.dmDoublet
+            ? { dMeV: round(p.resonance.dmDoublet.dMeV), jMeV: round(p.resonance.dmDoublet.jMeV), theta: round(p.resonance.dmDoublet.theta) }
+            : null,
+        }
+      : null,
+  };
+}

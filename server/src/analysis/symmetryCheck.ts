@@ -1,0 +1,153 @@
+// Spin-rotation symmetry of a model: feeds every bond tensor, single-ion tensor and effective
+// field of the unit cell to the physics layer's classifier, then maps findings back to source
+// ranges and checks the file's `expect` claim. Analysis layer.
+import { diag, type Diagnostic, type RelatedInfo } from "../base/diagnostics";
+import type { Span } from "../base/text";
+import { bondKey } from "../model/lattice";
+import type { SpinModel, SymmetryClass } from "../model/model";
+import { MU_B_MEV_PER_T } from "../model/units";
+import { dot3, mulMatVec3, scale3, transpose3 } from "../physics/linalg3";
+import { classifySymmetry, decomposeExchange, type FindingKind, type SymmetryClassification } from "../physics/symmetry";
+import type { Vec3 } from "../physics/types";
+
+export interface BreakingTerm {
+  readonly kind: FindingKind;
+  /** Where the term is written (the exchange, anisotropy, g or field statement). */
+  readonly span: Span;
+  readonly residual: "u1" | "none";
+  readonly axis: Vec3 | null;
+  readonly consequence: string;
+  readonly magnitudeMeV: number;
+}
+
+export interface SymmetryResult {
+  readonly classification: SymmetryClassification;
+  readonly h0: SymmetryClass;
+  readonly axis: Vec3 | null;
+  readonly full: SymmetryClass;
+  readonly fullAxis: Vec3 | null;
+  readonly breaking: readonly BreakingTerm[];
+}
+
+/** Effective Zeeman field h_s = muB g_s^T B of each basis site, meV. */
+export function siteFieldsMeV(model: SpinModel): Vec3[] {
+  const B: Vec3 = model.field?.vectorT ?? [0, 0, 0];
+  return (model.lattice?.sites ?? []).map((s) => scale3(mulMatVec3(transpose3(s.g), B), MU_B_MEV_PER_T));
+}
+
+export function analyzeSymmetry(model: SpinModel): SymmetryResult {
+  const spans = new Map<string, Span>();
+  const pairs = new Map<string, number>();
+  const bonds = model.exchanges.flatMap((term) =>
+    term.bonds.map((b) => {
+      const key = bondKey(b.from, b.to, b.offset);
+      let p = pairs.get(key);
+      if (p === undefined) {
+        p = pairs.size;
+        pairs.set(key, p);
+      }
+      const id = `exchange:${term.index}`;
+      spans.set(id, term.span);
+      // Distinct bonds are distinct operators: give each its own pair of indices.
+      return { id, matrix: term.matrixMeV, sites: [2 * p, 2 * p + 1] as [number, number] };
+    }),
+  );
+  const sites = model.lattice?.sites ?? [];
+  const singleIon = model.singleIon.map((t, k) => {
+    const id = `single-ion:${k}`;
+    spans.set(id, t.span);
+    return { id, matrix: t.matrixMeV, spin: sites[t.site]?.spin ?? 0.5, site: t.site };
+  });
+  const fields = siteFieldsMeV(model).map((vector, s) => {
+    const id = `field:${s}`;
+    spans.set(id, sites[s]?.gSpan ?? model.field?.span ?? model.nameSpan);
+    return { id, vector, site: s };
+  });
+  const c = classifySymmetry({ bonds, singleIon, fields });
+  const breaking: BreakingTerm[] = [];
+  const seen = new Set<string>();
+  const carries = (id: string, kind: FindingKind): boolean => {
+    // Findings are per bond pair; name only the terms that carry the breaking part themselves.
+    if (!id.startsWith("exchange:")) return true;
+    const term = model.exchanges[Number(id.slice(9))];
+    if (!term) return false;
+    const d = decomposeExchange(term.matrixMeV);
+    const tol = 1e-12 * Math.max(1e-300, Math.abs(d.isotropic) + d.norms.dm + d.norms.anisotropic);
+    return kind === "dm" ? d.norms.dm > tol : d.norms.anisotropic > tol;
+  };
+  for (const f of c.breaking) {
+    for (const id of f.ids) {
+      if (!carries(id, f.kind)) continue;
+      const span = spans.get(id);
+      if (!span) continue;
+      const key = `${f.kind}@${span.start}`;
+      if (seen.has(key)) continue;
+      seen.add(key);
+      breaking.push({ kind: f.kind, span, residual: f.residual, axis: f.axis, consequence: f.detail, magnitudeMeV: f.magnitude });
+    }
+  }
+  return { classification: c, h0: c.h0, axis: c.h0Axis, full: c.full, fullAxis: c.fullAxis, breaking };
+}
+
+export function describeClass(cls: SymmetryClass, axis: Vec3 | null): string {
+  if (cls === "su2") return "SU(2)";
+  if (cls === "u1") return `U(1) about (${(axis ?? [0, 0, 1]).map((x) => Number(x.toFixed(4))).join(", ")})`;
+  return "no continuous spin-rotation symmetry";
+}
+
+const KIND_TEXT: Record<FindingKind, string> = {
+  "exchange-anisotropy": "anisotropic exchange",
+  dm: "a Dzyaloshinskii-Moriya term",
+  "off-diagonal-symmetric": "off-diagonal symmetric exchange",
+  "single-ion": "a single-ion anisotropy",
+  "single-ion-rhombic": "a rhombic single-ion term",
+  "non-uniform-field": "a site-dependent effective field (non-uniform g)",
+  "transverse-field": "a field transverse to the symmetry axis",
+};
+
+export function kindText(kind: FindingKind): string {
+  return KIND_TEXT[kind];
+}
+
+/** Checks `expect` against the symmetry of H0 (the Hamiltonian without the Zeeman term). */
+export function checkExpect(model: SpinModel, sym: SymmetryResult): Diagnostic[] {
+  const e = model.expect;
+  if (!e) return [];
+  const computed = sym.h0;
+  const computedText = describeClass(computed, sym.axis);
+  const related: RelatedInfo[] = sym.breaking
+    .filter((b) => b.kind !== "non-uniform-field" && b.kind !== "transverse-field")
+    .map((b) => ({ span: b.span, message: `${kindText(b.kind)} breaks SU(2) here` }));
+  const replacement = computed === "u1" ? `u1 about (${(sym.axis ?? [0, 0, 1]).map((x) => Number(x.toFixed(6))).join(", ")})` : computed;
+  const data = { replacement, claimSpan: e.span };
+  const rank = { su2: 2, u1: 1, none: 0 } as const;
+  if (rank[e.claim] > rank[computed]) {
+    return [
+      diag(
+        "spw-expect-mismatch",
+        e.claimSpan,
+        `The file expects ${describeClass(e.claim, e.axis)}, but without the field the Hamiltonian has ${computedText}. Remove the breaking terms or write 'expect ${replacement}'.`,
+        { related, data },
+      ),
+    ];
+  }
+  if (e.claim === "u1" && computed === "u1" && e.axis && sym.axis && Math.abs(Math.abs(dot3(e.axis, sym.axis)) - 1) > 1e-6) {
+    return [
+      diag("spw-expect-mismatch", e.claimSpan, `The file expects U(1) about (${e.axis.map((x) => Number(x.toFixed(4))).join(", ")}), but the conserved axis is ${computedText.slice(10)}. Write 'expect ${replacement}'.`, {
+        related,
+        data,
+      }),
+    ];
+  }
+  if (rank[e.claim] < rank[computed]) {
+    return [
+      diag(
+        "spw-expect-weaker",
+        e.claimSpan,
+        `The Hamiltonian without the field has ${computedText}, more than 'expect ${e.claim}' claims; write 'expect ${replacement}' to let Spinwright guard it.`,
+        { data },
+      ),
+    ];
+  }
+  return [];
+}

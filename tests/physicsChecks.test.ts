@@ -1,0 +1,211 @@
+// Physics checks at the analysis boundary: symmetry classes and breaking terms with their source
+// ranges, the expect claim, conventions, frustration, regions and the protected resonance.
+// Each expectation names its source: Larmor theorem and symmetry algebra (physics notes 3-4,
+// derivable), CODATA 2018 for conversions, the cited papers for region boundaries.
+import { describe, expect, it } from "vitest";
+import { analyzeDocument } from "../server/src/analysis/analyze";
+
+function analyze(body: string, header = "spin 1/2\n convention antiferro-positive\n lattice chain sites Cu") {
+  const text = `model "m" {\n ${header}\n${body}\n}\n`;
+  const a = analyzeDocument(text);
+  const errors = a.diagnostics.filter((d) => d.severity === "error" && !d.code.startsWith("spw-expect"));
+  if (errors.length) throw new Error(errors.map((e) => `${e.code}: ${e.message}`).join("\n"));
+  if (!a.physics) throw new Error("no physics summary");
+  return { a, p: a.physics, text, spanText: (s: { start: number; end: number }) => text.slice(s.start, s.end) };
+}
+
+describe("symmetry classification from the file", () => {
+  it("Heisenberg chain with uniform g is SU(2) and protected", () => {
+    const { p } = analyze(` let J = 1 meV\n exchange heisenberg(J) on shell 1\n g Cu = 2.1\n field 1 T`);
+    expect(p.symmetry.h0).toBe("su2");
+    expect(p.symmetry.breaking).toEqual([]);
+    expect(p.resonance.protected).toBe(true);
+  });
+
+  it("XXZ with the field along z: U(1) about z, not protected; the finding points at the xxz statement", () => {
+    const { p, spanText } = analyze(` let J = 1 meV\n exchange xxz(J, 0.7) on shell 1\n field 2 T along (0, 0, 1)`);
+    expect(p.symmetry.h0).toBe("u1");
+    expect(p.symmetry.axis?.map((x) => Math.abs(x))).toEqual([0, 0, 1]);
+    expect(p.symmetry.full).toBe("u1");
+    expect(p.resonance.protected).toBe(false);
+    expect(p.symmetry.breaking.map((b) => [b.kind, spanText(b.span)])).toEqual([["exchange-anisotropy", "exchange xxz(J, 0.7) on shell 1"]]);
+  });
+
+  it("XXZ with a tilted field has no continuous symmetry at all", () => {
+    const { p } = analyze(` exchange xxz(1 meV, 0.7) on shell 1\n field 2 T along (1, 0, 1)`);
+    expect(p.symmetry.h0).toBe("u1");
+    expect(p.symmetry.full).toBe("none");
+  });
+
+  it("finds a tilted XXZ axis", () => {
+    const { p } = analyze(` exchange xxz(1 meV, 0.5, (1, 1, 0)) on shell 1`);
+    expect(p.symmetry.h0).toBe("u1");
+    const n = p.symmetry.axis ?? [0, 0, 0];
+    expect(Math.abs(n[0])).toBeCloseTo(Math.SQRT1_2, 9);
+    expect(Math.abs(n[1])).toBeCloseTo(Math.SQRT1_2, 9);
+  });
+
+  it("DM parallel to one axis leaves U(1) about it; DM on two axes leaves nothing", () => {
+    const u1 = analyze(` exchange heisenberg(1 meV) on shell 1\n exchange dm(0.1 meV, (0, 0, 1)) on Cu -> Cu + (1)`);
+    expect(u1.p.symmetry.h0).toBe("u1");
+    expect(u1.p.symmetry.breaking.map((b) => [b.kind, u1.spanText(b.span)])).toEqual([["dm", "exchange dm(0.1 meV, (0, 0, 1)) on Cu -> Cu + (1)"]]);
+    const none = analyze(` exchange heisenberg(1 meV) on shell 1\n exchange dm(0.1 meV, (0, 0, 1)) on Cu -> Cu + (1)\n exchange dm(0.1 meV, (1, 0, 0)) on Cu -> Cu + (2)`);
+    expect(none.p.symmetry.h0).toBe("none");
+  });
+
+  it("XYZ with three different couplings has no continuous symmetry", () => {
+    const { p } = analyze(` exchange xyz(1 meV, 0.8 meV, 0.6 meV) on shell 1`);
+    expect(p.symmetry.h0).toBe("none");
+    expect(p.symmetry.breaking.map((b) => b.kind)).toContain("exchange-anisotropy");
+  });
+
+  it("off-diagonal symmetric exchange is reported as such", () => {
+    const { p } = analyze(` exchange matrix(1 meV, [[1, 0.2, 0], [0.2, 1, 0], [0, 0, 1]]) on shell 1`);
+    expect(p.symmetry.breaking.map((b) => b.kind)).toContain("off-diagonal-symmetric");
+  });
+
+  it("spin-1/2 single-ion term: a warning and no effect on the symmetry", () => {
+    const { a, p } = analyze(` exchange heisenberg(1 meV) on shell 1\n anisotropy Cu D = 0.3 meV`);
+    expect(a.diagnostics.map((d) => d.code)).toContain("spw-single-ion-constant");
+    expect(p.symmetry.h0).toBe("su2");
+  });
+
+  it("spin-1 single-ion D breaks SU(2) to U(1) about its axis; an E term breaks it fully", () => {
+    const d = analyze(` exchange heisenberg(1 meV) on shell 1\n anisotropy Cu D = 0.3 meV axis (0, 0, 1)`, "spin 1\n convention antiferro-positive\n lattice chain sites Cu");
+    expect(d.p.symmetry.h0).toBe("u1");
+    expect(d.p.symmetry.breaking.map((b) => [b.kind, d.spanText(b.span)])).toEqual([["single-ion", "anisotropy Cu D = 0.3 meV axis (0, 0, 1)"]]);
+    const e = analyze(` exchange heisenberg(1 meV) on shell 1\n anisotropy Cu D = 0.3 meV E = 0.05 meV`, "spin 1\n convention antiferro-positive\n lattice chain sites Cu");
+    expect(e.p.symmetry.h0).toBe("none");
+  });
+
+  it("uniform anisotropic g with SU(2) H0 is protected, with g along the field from g^T n", () => {
+    const { p } = analyze(` exchange heisenberg(1 meV) on shell 1\n g Cu = (2.0, 2.0, 2.3)\n field 1 T along (1, 0, 1)`);
+    expect(p.resonance.protected).toBe(true);
+    // |g^T n| for n = (1, 0, 1)/sqrt 2: sqrt((2.0^2 + 2.3^2)/2) (derivable).
+    expect(p.resonance.gAlongField).toBeCloseTo(Math.sqrt((4 + 2.3 ** 2) / 2), 12);
+  });
+
+  it("staggered g on a two-site cell is not protected and names the g statements", () => {
+    const { p, spanText } = analyze(
+      ` exchange heisenberg(1 meV) on A -> B, B -> A + (1)\n g A = (2.0, 2.0, 2.2)\n g B = (2.2, 2.0, 2.0)\n field 1 T along (1, 0, 1)`,
+      "spin 1/2\n convention antiferro-positive\n lattice { vector a1 = (1, 0, 0)  site A = (0, 0, 0)  site B = (0.5, 0, 0) }",
+    );
+    expect(p.symmetry.h0).toBe("su2");
+    expect(p.resonance.protected).toBe(false);
+    expect(p.symmetry.breaking.map((b) => spanText(b.span)).some((t) => t.startsWith("g "))).toBe(true);
+  });
+});
+
+describe("the expect claim", () => {
+  it("expect su2 on a DM chain is an error pointing at the DM term", () => {
+    const { a, text } = analyze(` exchange heisenberg(1 meV) on shell 1\n exchange dm(0.1 meV, (0, 0, 1)) on Cu -> Cu + (1)\n expect su2`);
+    const d = a.diagnostics.find((x) => x.code === "spw-expect-mismatch");
+    expect(d?.severity).toBe("error");
+    expect(text.slice(d?.span.start, d?.span.end)).toBe("su2");
+    expect(d?.related?.map((r) => text.slice(r.span.start, r.span.end))).toEqual(["exchange dm(0.1 meV, (0, 0, 1)) on Cu -> Cu + (1)"]);
+    expect(d?.data?.["replacement"]).toBe("u1 about (0, 0, 1)");
+  });
+
+  it("expect u1 about the wrong axis is an error", () => {
+    const { a } = analyze(` exchange xxz(1 meV, 0.5) on shell 1\n expect u1 about (1, 0, 0)`);
+    expect(a.diagnostics.map((d) => d.code)).toContain("spw-expect-mismatch");
+  });
+
+  it("expect none on an SU(2) model is a hint", () => {
+    const { a } = analyze(` exchange heisenberg(1 meV) on shell 1\n expect none`);
+    const d = a.diagnostics.find((x) => x.code === "spw-expect-weaker");
+    expect(d?.severity).toBe("hint");
+  });
+
+  it("a correct claim gives no diagnostic", () => {
+    const { a } = analyze(` exchange xxz(1 meV, 0.5) on shell 1\n expect u1 about (0, 0, -1)`);
+    expect(a.diagnostics.filter((d) => d.code.startsWith("spw-expect"))).toEqual([]);
+  });
+});
+
+describe("conventions and frustration", () => {
+  it("labels couplings under each convention", () => {
+    const af = analyze(` let J1 = 1 meV\n let J2 = -0.3 meV\n exchange heisenberg(J1) on shell 1\n exchange heisenberg(J2) on shell 2`);
+    expect(af.p.couplings.map((c) => [c.name, c.character])).toEqual([["J1", "antiferro"], ["J2", "ferro"]]);
+    const f = analyze(` let J1 = 1 meV\n exchange heisenberg(J1) on shell 1`, "spin 1/2\n convention ferro-positive\n lattice chain sites Cu");
+    expect(f.p.couplings[0]?.character).toBe("ferro");
+  });
+
+  // Frustration: a cycle with an odd number of antiferromagnetic bonds (derivable).
+  const chain = (j1: string, j2: string) => analyze(` exchange heisenberg(${j1}) on shell 1\n exchange heisenberg(${j2}) on shell 2`).p.frustration;
+  it("J1-J2 chain: AF/AF frustrated, F/AF frustrated, AF/F not", () => {
+    expect(chain("1 meV", "0.3 meV").map((g) => [g.cycle, g.frustrated])).toEqual([["triangle J1-J1-J2".replace(/J1|J2/g, (m) => (m === "J1" ? "heisenberg #1" : "heisenberg #2")), true]]);
+    expect(chain("-1 meV", "0.3 meV")[0]?.frustrated).toBe(true);
+    expect(chain("1 meV", "-0.3 meV")[0]?.frustrated).toBe(false);
+  });
+
+  it("triangular and kagome triangles are frustrated; the plain square lattice is not; square with J2 is", () => {
+    const lat = (l: string, extra = "") => analyze(` exchange heisenberg(1 meV) on shell 1\n${extra}`, `spin 1/2\n convention antiferro-positive\n lattice ${l}`).p.frustration;
+    expect(lat("triangular").every((g) => g.frustrated && g.length === 3)).toBe(true);
+    expect(lat("kagome").every((g) => g.frustrated && g.length === 3)).toBe(true);
+    expect(lat("square").every((g) => g.frustrated === false && g.length === 4)).toBe(true);
+    expect(lat("square", " exchange heisenberg(0.5 meV) on shell 2").some((g) => g.frustrated && g.length === 3)).toBe(true);
+  });
+
+  it("a square lattice with only one bond direction draws a coordination warning", () => {
+    const { a } = analyze(` exchange heisenberg(1 meV) on A -> A + (1, 0)`, "spin 1/2\n convention antiferro-positive\n lattice square");
+    expect(a.diagnostics.map((d) => d.code)).toContain("spw-coordination");
+  });
+});
+
+describe("stability regions", () => {
+  const place = (ratio: number) => analyze(` let J1 = 1 meV\n exchange heisenberg(J1) on shell 1\n exchange heisenberg(${ratio} * J1) on shell 2`).p.family.placement;
+  it("J1-J2 chain below and above J2c = 0.2411 J1 (Okamoto & Nomura, Phys. Lett. A 169, 433 (1992))", () => {
+    expect(place(0.23)?.gapless).toBe(true);
+    expect(place(0.23)?.boundary?.value).toBe(0.2411);
+    expect(place(0.23)?.distance).toBeCloseTo(0.23 / 0.2411 - 1, 12);
+    expect(place(0.3)?.gapless).toBe(false);
+    expect(place(0.2411)?.onBoundary).toBe(true);
+  });
+
+  it("the Majumdar-Ghosh point J2 = J1/2 (Majumdar & Ghosh, J. Math. Phys. 10, 1388 (1969))", () => {
+    expect(place(0.5)?.onBoundary).toBe(true);
+    expect(place(0.5)?.boundary?.value).toBe(0.5);
+  });
+
+  it("XXZ chain regimes from the Bethe ansatz", () => {
+    const xxz = (d: number) => analyze(` exchange xxz(1 meV, ${d}) on shell 1`).p.family.placement;
+    expect(xxz(0.5)?.gapless).toBe(true);
+    expect(xxz(1.5)?.gapless).toBe(false);
+    expect(xxz(-1.5)?.family).toBe("xxz-chain");
+  });
+
+  it("a chain with DM matches no tabulated family and says why", () => {
+    const { p } = analyze(` exchange heisenberg(1 meV) on shell 1\n exchange dm(0.1 meV, (0, 0, 1)) on Cu -> Cu + (1)`);
+    expect(p.family.placement).toBeNull();
+    expect(p.family.description).toMatch(/no tabulated/);
+  });
+
+  it("triangular J1-J2 uses the classical boundary 1/8 (derivable classical minimum)", () => {
+    const { p } = analyze(` exchange heisenberg(1 meV) on shell 1\n exchange heisenberg(0.05 meV) on shell 2`, "spin 1/2\n convention antiferro-positive\n lattice triangular");
+    expect(p.family.placement?.family).toBe("triangular-j1j2");
+    expect(p.family.placement?.boundary?.value).toBe(0.125);
+  });
+});
+
+describe("the zero-momentum resonance", () => {
+  it("g = 2 at 1 T: 27.99 GHz, 0.1158 meV, 1.3434 K, 0.9337 cm^-1 (CODATA 2018)", () => {
+    const { p } = analyze(` exchange heisenberg(1 meV) on shell 1\n g Cu = 2\n field 1 T`);
+    expect(p.resonance.zeemanGHz).toBeCloseTo(27.99249, 4);
+    expect(p.resonance.zeemanMeV).toBeCloseTo(0.115768, 6);
+    expect(p.resonance.zeemanK).toBeCloseTo(1.343428, 5);
+    expect(p.resonance.zeemanCm).toBeCloseTo(0.933729, 5);
+  });
+
+  it("gives the resonance field of the probe frequency: 9.8 GHz at g = 2 is 0.35006 T (CODATA 2018)", () => {
+    const { p } = analyze(` exchange heisenberg(1 meV) on shell 1\n g Cu = 2\n field 1 T\n probe 9.8 GHz`);
+    expect(p.resonance.probe?.resonanceFieldT).toBeCloseTo(9.8 / (2 * 13.9962449361), 8);
+  });
+
+  it("uniform DM parallel to the field on a chain flags the doublet with tan theta = D/J", () => {
+    const { p, a } = analyze(` exchange heisenberg(1 meV) on shell 1\n exchange dm(0.1 meV, (0, 0, 1)) on Cu -> Cu + (1)\n field 3 T along (0, 0, 1)`);
+    expect(p.resonance.protected).toBe(false);
+    expect(p.resonance.dmDoublet?.theta).toBeCloseTo(Math.atan(0.1), 12);
+    expect(a.diagnostics.find((d) => d.code === "spw-resonance-unprotected")?.related?.length).toBe(1);
+  });
+});
