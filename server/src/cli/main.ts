@@ -3,6 +3,7 @@
 import { readFileSync, writeFileSync } from "node:fs";
 import { analyzeDocument, type DocumentAnalysis } from "../analysis/analyze";
 import { analysisJson } from "../analysis/json";
+import { diffModels, renderDiff } from "../analysis/diff";
 import { exportCluster } from "./export";
 import { formatJson, formatSarif, formatText, type FileDiagnostics } from "./format";
 import { renderReport } from "./report";
@@ -15,6 +16,7 @@ Usage:
   spinwright check FILE... [--format text|json|sarif] [--output PATH]
   spinwright report FILE...
   spinwright analyze FILE... [--format json]
+  spinwright diff OLD.spw NEW.spw [--format text|json|markdown]
   spinwright export FILE [--cluster N | --cluster N,M] [--output PATH]
   spinwright help
 
@@ -119,6 +121,17 @@ export async function main(argv: readonly string[]): Promise<number> {
         const objects = results.map((r) => analysisJson(r.file, r.analysis));
         output(JSON.stringify(objects.length === 1 ? objects[0] : objects, null, 2), options);
         return hasErrors(results) ? 1 : 0;
+      }
+      case "diff": {
+        // As a git difftool or diff driver the files come first; extra arguments are ignored.
+        const [oldFile, newFile] = files;
+        if (!oldFile || !newFile) throw new UsageError("diff takes two files: OLD.spw NEW.spw");
+        const d = diffModels(analyzeDocument(readSource(oldFile)), analyzeDocument(readSource(newFile)));
+        const format = options.get("--format") ?? (options.has("--markdown") ? "markdown" : "text");
+        if (format === "json") output(JSON.stringify(d, null, 2), options);
+        else if (format === "markdown" || format === "text") output(renderDiff(d, oldFile, newFile, format === "markdown"), options);
+        else throw new UsageError(`unknown format ${format} (text, json, markdown)`);
+        return d.significant ? 1 : 0;
       }
       case "export": {
         if (files.length !== 1) throw new UsageError("export takes exactly one file");

@@ -1,0 +1,90 @@
+// The built command line (dist/cli.js, made by `npm test` before vitest runs): exit codes,
+// output formats and messages, run as a user would.
+import { spawnSync } from "node:child_process";
+import { existsSync, mkdtempSync, readFileSync, writeFileSync } from "node:fs";
+import { tmpdir } from "node:os";
+import { join } from "node:path";
+import { beforeAll, describe, expect, it } from "vitest";
+
+const root = join(__dirname, "..");
+const cli = join(root, "dist", "cli.js");
+
+function run(...args: string[]) {
+  const r = spawnSync(process.execPath, [cli, ...args], { cwd: root, encoding: "utf8" });
+  return { code: r.status, out: r.stdout, err: r.stderr };
+}
+
+beforeAll(() => {
+  if (!existsSync(cli)) spawnSync(process.execPath, [join(root, "scripts", "build.mjs")], { cwd: root });
+});
+
+describe("spinwright CLI", () => {
+  it("check exits 0 on the valid samples and 1 on the file with mistakes", () => {
+    expect(run("check", "samples/heisenberg-chain-field.spw").code).toBe(0);
+    const bad = run("check", "samples/broken/mistakes.spw");
+    expect(bad.code).toBe(1);
+    expect(bad.out).toMatch(/^samples\/broken\/mistakes\.spw:9:18: error spw-name-unknown: Unknown name 'J3'/m);
+  });
+
+  it("check exits 2 with a one-line reason for a missing file or a bad option", () => {
+    const missing = run("check", "no-such-file.spw");
+    expect(missing.code).toBe(2);
+    expect(missing.err.trim()).toBe("spinwright: cannot read no-such-file.spw: no such file");
+    expect(run("check", "--frobnicate", "x.spw").code).toBe(2);
+    expect(run("bogus").code).toBe(2);
+  });
+
+  it("--format json gives zero-based LSP ranges", () => {
+    const r = run("check", "--format", "json", "samples/broken/mistakes.spw");
+    const items = JSON.parse(r.out) as { range: { start: { line: number; character: number } }; code: string }[];
+    const unknown = items.find((d) => d.code === "spw-name-unknown");
+    expect(unknown?.range.start).toEqual({ line: 8, character: 17 });
+  });
+
+  it("--format sarif writes SARIF 2.1.0 with rules and one-based regions", () => {
+    const r = run("check", "--format", "sarif", "samples/broken/mistakes.spw");
+    const sarif = JSON.parse(r.out);
+    expect(sarif.version).toBe("2.1.0");
+    const result = sarif.runs[0].results.find((x: { ruleId: string }) => x.ruleId === "spw-name-unknown");
+    expect(result.locations[0].physicalLocation.region.startLine).toBe(9);
+    expect(result.locations[0].physicalLocation.region.startColumn).toBe(18);
+    expect(sarif.runs[0].tool.driver.rules.some((x: { id: string }) => x.id === "spw-name-unknown")).toBe(true);
+  });
+
+  it("export writes the cluster JSON; the site and bond counts match the cluster", () => {
+    const r = run("export", "samples/j1j2-chain-critical.spw", "--cluster", "10");
+    expect(r.code).toBe(0);
+    const j = JSON.parse(r.out);
+    expect(j.cluster.siteCount).toBe(10);
+    expect(j.bonds.length).toBe(20);
+    expect(j.units.energy).toBe("meV");
+  });
+
+  it("export refuses a file with errors and says why", () => {
+    const r = run("export", "samples/broken/mistakes.spw");
+    expect(r.code).toBe(1);
+    expect(r.err).toMatch(/has errors; fix them before exporting/);
+  });
+
+  it("analyze --format json carries symmetry, couplings, frustration, region and resonance", () => {
+    const r = run("analyze", "samples/j1j2-chain-critical.spw");
+    const j = JSON.parse(r.out);
+    expect(j.symmetry.h0).toBe("su2");
+    expect(j.couplings.map((c: { character: string }) => c.character)).toEqual(["antiferro", "antiferro"]);
+    expect(j.region.family).toBe("j1j2-chain");
+    expect(j.resonance.protected).toBe(true);
+  });
+
+  it("diff exits 1 when a DM term is added and 0 for a rename", () => {
+    const dir = mkdtempSync(join(tmpdir(), "spw-"));
+    const base = readFileSync(join(root, "samples", "heisenberg-chain-field.spw"), "utf8");
+    writeFileSync(join(dir, "dm.spw"), base.replace("expect su2", "exchange dm(0.1 * J1, (0, 0, 1)) on Cu -> Cu + (1)\n  expect su2"));
+    writeFileSync(join(dir, "renamed.spw"), base.replace(/J1/g, "Jx"));
+    const flipped = run("diff", "samples/heisenberg-chain-field.spw", join(dir, "dm.spw"), "--format", "markdown");
+    expect(flipped.code).toBe(1);
+    expect(flipped.out).toMatch(/protected -> not protected/);
+    const same = run("diff", "samples/heisenberg-chain-field.spw", join(dir, "renamed.spw"));
+    expect(same.code).toBe(0);
+    expect(same.out).toMatch(/no physical change/);
+  });
+});
