@@ -1,8 +1,12 @@
 // `npm run bench`: runs every benchmark and prints its figures with their targets.
 import { benchParse } from "./parse";
+import { benchPredictions } from "./predictions";
 
 async function run(): Promise<void> {
-  const sections: [string, () => Promise<string[]> | string[]][] = [["syntax and model", benchParse]];
+  const sections: [string, () => Promise<string[]> | string[]][] = [
+    ["syntax and model", benchParse],
+    ["analytic predictions", benchPredictions],
+  ];
   for (const [name, fn] of sections) {
     console.log(`# ${name}`);
     for (const line of await fn()) console.log(`  ${line}`);

@@ -6,7 +6,7 @@ import { LineIndex } from "../base/text";
 import { buildModel } from "../model/build";
 import type { SpinModel } from "../model/model";
 import { parseSpw, type ParsedFile } from "../syntax/parse";
-import { analyzePhysics, type PhysicsSummary } from "./physics";
+import { analyzePhysics, type AnalysisOptions, type PhysicsSummary } from "./physics";
 
 export interface DocumentAnalysis {
   readonly text: string;
@@ -20,13 +20,13 @@ export interface DocumentAnalysis {
   readonly diagnostics: readonly Diagnostic[];
 }
 
-export function analyzeDocument(text: string): DocumentAnalysis {
+export function analyzeDocument(text: string, options: AnalysisOptions = {}): DocumentAnalysis {
   const parsed = parseSpw(text);
   const built = buildModel(parsed.ast, text);
   const diagnostics: Diagnostic[] = [...parsed.diagnostics, ...built.diagnostics];
   let physics: PhysicsSummary | null = null;
   if (built.model) {
-    const result = analyzePhysics(built.model);
+    const result = analyzePhysics(built.model, options);
     physics = result.summary;
     diagnostics.push(...result.diagnostics);
   }

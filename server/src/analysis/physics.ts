@@ -8,6 +8,7 @@ import { detectFamily, type FamilyResult } from "./family";
 import { analyzeFrustration, type FrustrationGroup } from "./frustration";
 import { analyzeResonance, type ResonanceSummary } from "./resonance";
 import { analyzeSymmetry, checkExpect, type SymmetryResult } from "./symmetryCheck";
+import { predict, type ExactProvider, type Predictions } from "./predictions";
 
 export interface PhysicsSummary {
   readonly symmetry: SymmetryResult;
@@ -15,9 +16,15 @@ export interface PhysicsSummary {
   readonly frustration: readonly FrustrationGroup[];
   readonly family: FamilyResult;
   readonly resonance: ResonanceSummary;
+  readonly predictions: Predictions;
 }
 
-export function analyzePhysics(model: SpinModel): { summary: PhysicsSummary; diagnostics: Diagnostic[] } {
+export interface AnalysisOptions {
+  /** Exact finite-ring calibrations already computed for a coupling set (never computed here). */
+  readonly exact?: ExactProvider;
+}
+
+export function analyzePhysics(model: SpinModel, options: AnalysisOptions = {}): { summary: PhysicsSummary; diagnostics: Diagnostic[] } {
   const diagnostics: Diagnostic[] = [];
   const symmetry = analyzeSymmetry(model);
   diagnostics.push(...checkExpect(model, symmetry));
@@ -46,5 +53,7 @@ export function analyzePhysics(model: SpinModel): { summary: PhysicsSummary; dia
   const family = detectFamily(model);
   const resonance = analyzeResonance(model, symmetry, family);
   diagnostics.push(...resonance.diagnostics);
-  return { summary: { symmetry, couplings, frustration, family, resonance: resonance.summary }, diagnostics };
+  const base = { symmetry, couplings, frustration, family, resonance: resonance.summary };
+  const predictions = predict(model, base, options.exact);
+  return { summary: { ...base, predictions }, diagnostics };
 }

@@ -16,12 +16,19 @@ function validToken(t: IToken | undefined): t is IToken {
   return t !== undefined && Number.isFinite(t.startOffset) && !t.isInsertedInRecovery;
 }
 
+const NO_ELEMENTS: never[] = [];
+
+/** The real tokens under a child key (recovery-inserted ones dropped); no copy when all are real. */
 function tokens(c: Children, name: string): IToken[] {
-  return ((c[name] ?? []) as CstElement[]).filter((e): e is IToken => isToken(e) && validToken(e));
+  const list = c[name] as IToken[] | undefined;
+  if (!list) return NO_ELEMENTS;
+  for (const t of list) if (!validToken(t)) return list.filter(validToken);
+  return list;
 }
 
+/** Child nodes under a rule key (chevrotain keeps tokens and nodes under separate keys). */
 function nodes(c: Children, name: string): CstNode[] {
-  return ((c[name] ?? []) as CstElement[]).filter((e): e is CstNode => !isToken(e));
+  return (c[name] as CstNode[] | undefined) ?? NO_ELEMENTS;
 }
 
 function tokenSpan(t: IToken): Span {
