@@ -7,6 +7,7 @@ const entries = [
   ["server/src/cli/main.ts", "dist/cli.js"],
   ["server/src/lsp/serverNode.ts", "dist/server.js"],
   ["server/src/physics/ed/worker.ts", "dist/edWorker.js"],
+  ["server/src/host/jobWorker.ts", "dist/jobWorker.js"],
   ["bench/main.ts", "dist/bench.js"],
 ];
 

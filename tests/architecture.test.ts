@@ -19,8 +19,9 @@ const ALLOWED: Record<string, string[]> = {
   model: ["base", "syntax", "model", "physics"],
   analysis: ["base", "syntax", "model", "physics", "analysis"],
   service: ["base", "syntax", "model", "physics", "analysis", "service"],
-  lsp: ["base", "syntax", "model", "physics", "analysis", "service", "lsp"],
-  cli: ["base", "syntax", "model", "physics", "analysis", "service", "cli"],
+  host: ["base", "syntax", "model", "physics", "analysis", "host"],
+  lsp: ["base", "syntax", "model", "physics", "analysis", "service", "host", "lsp"],
+  cli: ["base", "syntax", "model", "physics", "analysis", "service", "host", "cli"],
 };
 
 const PACKAGES_FORBIDDEN: Record<string, RegExp> = {
@@ -31,6 +32,7 @@ const PACKAGES_FORBIDDEN: Record<string, RegExp> = {
   analysis: /^vscode/,
   service: /^vscode-languageserver($|\/)|^vscode$/,
   cli: /^vscode/,
+  host: /^vscode/,
 };
 
 describe("layering", () => {

@@ -97,7 +97,7 @@ export interface Predictions {
   } | null;
   readonly regime: "zero field" | "two-branch" | "between" | "near saturation" | "saturated" | null;
   readonly curve: readonly { readonly qOverPi: number; readonly lowerMeV: number; readonly upperMeV: number; readonly lowerWeight: number; readonly upperWeight: number }[];
-  readonly sweep: readonly { readonly fieldT: number; readonly zeemanMeV: number; readonly m: number | null; readonly splittingMeV: number | null; readonly method: string }[];
+  readonly sweep: readonly { readonly fieldT: number; readonly zeemanMeV: number; readonly m: number | null; readonly splittingMeV: number | null; readonly method: string; readonly splittingMethod: string | null }[];
 }
 
 const saturationCache = new Map<string, ReturnType<typeof saturationFieldWithBoundStates>>();
@@ -375,12 +375,18 @@ export function predict(model: SpinModel, physics: Omit<PhysicsSummary, "predict
         how = `exact ${exact.sites}-site ring`;
       }
       let dd: number | null = null;
+      let ddHow: string | null = null;
       if (mm !== null && mm > 0 && mm < 0.5 && gapless === true) {
         const ex = exact ? interpolateSplitting(exact, mm) : null;
-        if (ex !== null) dd = ex;
-        else if (mm <= FIELD_THEORY_MAX_M && v !== null) dd = fieldTheorySplitting(hz / J, v / J, mm).splitting * J;
+        if (ex !== null) {
+          dd = ex;
+          ddHow = `exact ${exact?.sites}-site ring`;
+        } else if (mm <= FIELD_THEORY_MAX_M && v !== null) {
+          dd = fieldTheorySplitting(hz / J, v / J, mm).splitting * J;
+          ddHow = "field theory";
+        }
       }
-      sweep.push({ fieldT: B, zeemanMeV: hz, m: mm, splittingMeV: dd, method: how });
+      sweep.push({ fieldT: B, zeemanMeV: hz, m: mm, splittingMeV: dd, method: how, splittingMethod: ddHow });
     }
   }
 

@@ -7,6 +7,8 @@ import { diffModels, renderDiff } from "../analysis/diff";
 import { exportCluster } from "./export";
 import { formatJson, formatSarif, formatText, type FileDiagnostics } from "./format";
 import { renderReport } from "./report";
+import { CliFailure, runCalibration, runSolve, solveJson, solveText } from "./solve";
+import type { ExactCalibration } from "../analysis/predictions";
 
 export const VERSION = "0.1.0";
 
@@ -14,8 +16,9 @@ const USAGE = `spinwright ${VERSION}: checks spin-model definition files (.spw)
 
 Usage:
   spinwright check FILE... [--format text|json|sarif] [--output PATH]
-  spinwright report FILE...
-  spinwright analyze FILE... [--format json]
+  spinwright report FILE... [--exact [--sites N]]
+  spinwright analyze FILE... [--format json] [--exact [--sites N]]
+  spinwright solve FILE [--sites N] [--format text|json]
   spinwright diff OLD.spw NEW.spw [--format text|json|markdown]
   spinwright export FILE [--cluster N | --cluster N,M] [--output PATH]
   spinwright help
@@ -31,7 +34,7 @@ interface Parsed {
 }
 
 const VALUE_OPTIONS = new Set(["--format", "--output", "-o", "--cluster", "--sites"]);
-const FLAG_OPTIONS = new Set(["--quiet", "--markdown"]);
+const FLAG_OPTIONS = new Set(["--quiet", "--markdown", "--exact"]);
 
 function parseArgs(argv: readonly string[]): Parsed {
   const [command, ...rest] = argv;
@@ -110,17 +113,32 @@ export async function main(argv: readonly string[]): Promise<number> {
         return hasErrors(results) ? 1 : 0;
       }
       case "report": {
-        const results = analyzeFiles(files);
+        const results = await withExact(analyzeFiles(files), options);
         output(results.map((r) => renderReport(r.file, r.analysis)).join("\n"), options);
         return hasErrors(results) ? 1 : 0;
       }
       case "analyze": {
-        const results = analyzeFiles(files);
+        const results = await withExact(analyzeFiles(files), options);
         const format = options.get("--format") ?? "json";
         if (format !== "json") throw new UsageError(`analyze prints JSON only (--format json)`);
         const objects = results.map((r) => analysisJson(r.file, r.analysis));
         output(JSON.stringify(objects.length === 1 ? objects[0] : objects, null, 2), options);
         return hasErrors(results) ? 1 : 0;
+      }
+      case "solve": {
+        if (files.length !== 1) throw new UsageError("solve takes exactly one file");
+        const [r] = analyzeFiles(files);
+        if (!r) return 2;
+        const errors = r.analysis.diagnostics.filter((d) => d.severity === "error");
+        if (errors.length > 0) {
+          process.stderr.write(`${formatText([{ file: r.file, lines: r.analysis.lines, diagnostics: errors }])}\n`);
+          process.stderr.write(`spinwright: ${r.file} has errors; fix them before solving.\n`);
+          return 1;
+        }
+        const result = await runSolve(r.analysis, sitesOption(options));
+        const format = options.get("--format") ?? "text";
+        output(format === "json" ? JSON.stringify(solveJson(r.file, r.analysis, result), null, 2) : solveText(r.file, result), options);
+        return 0;
       }
       case "diff": {
         // As a git difftool or diff driver the files come first; extra arguments are ignored.
@@ -167,6 +185,10 @@ export async function main(argv: readonly string[]): Promise<number> {
       process.stderr.write(`spinwright: ${e.message}\n\n${USAGE}\n`);
       return 2;
     }
+    if (e instanceof CliFailure) {
+      process.stderr.write(`spinwright: ${e.message}\n`);
+      return e.message.startsWith("cancelled") ? 130 : 1;
+    }
     if (e instanceof IoError) {
       process.stderr.write(`spinwright: ${e.message}\n`);
       return 2;
@@ -174,6 +196,29 @@ export async function main(argv: readonly string[]): Promise<number> {
     process.stderr.write(`spinwright: internal error: ${(e as Error).message}\n`);
     return 2;
   }
+}
+
+function sitesOption(options: Map<string, string>): number | undefined {
+  const v = options.get("--sites");
+  if (v === undefined) return undefined;
+  const n = Number(v);
+  if (!Number.isInteger(n) || n < 2) throw new UsageError(`--sites takes a whole number of sites (got ${v})`);
+  return n;
+}
+
+/** With --exact, calibrates each chain model on a ring and analyzes it again with those numbers. */
+async function withExact(
+  results: { file: string; analysis: DocumentAnalysis }[],
+  options: Map<string, string>,
+): Promise<{ file: string; analysis: DocumentAnalysis }[]> {
+  if (!options.has("--exact")) return results;
+  const sites = sitesOption(options) ?? 16;
+  const out: { file: string; analysis: DocumentAnalysis }[] = [];
+  for (const r of results) {
+    const cal: ExactCalibration | null = r.analysis.physics?.predictions.couplings ? await runCalibration(r.analysis, sites) : null;
+    out.push(cal ? { file: r.file, analysis: analyzeDocument(r.analysis.text, { exact: () => cal }) } : r);
+  }
+  return out;
 }
 
 function summaryLine(results: readonly { analysis: DocumentAnalysis }[]): string {
