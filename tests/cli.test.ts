@@ -88,3 +88,38 @@ describe("spinwright CLI", () => {
     expect(same.out).toMatch(/no physical change/);
   });
 });
+
+describe("spinwright solve and --exact", () => {
+  it("solve --format json reports the Larmor line of an SU(2) chain as a single pole at the Zeeman energy", () => {
+    const r = run("solve", "samples/j1j2-chain-critical.spw", "--sites", "12", "--format", "json");
+    expect(r.code).toBe(0);
+    const j = JSON.parse(r.out);
+    expect(j.sites).toBe(12);
+    expect(j.larmor.singlePole).toBe(true);
+    // The Zeeman energy of the file (g = 2.1 at 12 T, CODATA 2018 muB) is where the line sits.
+    const analyzed = JSON.parse(run("analyze", "samples/j1j2-chain-critical.spw").out);
+    expect(Math.abs(j.larmor.zeemanMeV - analyzed.resonance.zeemanMeV) / analyzed.resonance.zeemanMeV).toBeLessThan(1e-9);
+    for (const c of j.correlators) expect(Math.abs(c.sumRule.total - c.sumRule.expected)).toBeLessThan(1e-8);
+    expect(typeof j.splittingMeV.fromCurrent).toBe("number");
+  });
+
+  it("solve of the DM chain finds more than one line at q = 0", () => {
+    const j = JSON.parse(run("solve", "samples/dm-chain.spw", "--sites", "12", "--format", "json").out);
+    expect(j.larmor.singlePole).toBe(false);
+  });
+
+  it("analyze --exact turns the J1-J2 chain's missing numbers into exact-ring values with their method", () => {
+    const plain = JSON.parse(run("analyze", "samples/j1j2-chain-critical.spw").out);
+    expect(plain.predictions.magnetization.m).toBeNull();
+    const exact = JSON.parse(run("analyze", "samples/j1j2-chain-critical.spw", "--exact", "--sites", "12").out);
+    expect(exact.predictions.magnetization.method).toMatch(/12-site ring/);
+    expect(exact.predictions.branches.valid).toBe(true);
+    expect(exact.predictions.branches.method).toMatch(/12-site ring/);
+  });
+
+  it("solve refuses a size that is not a whole number of cells and says why", () => {
+    const r = run("solve", "samples/j1j2-chain-critical.spw", "--sites", "x");
+    expect(r.code).toBe(2);
+    expect(r.err).toMatch(/--sites takes a whole number/);
+  });
+});

@@ -1,6 +1,7 @@
 // The machine-readable analysis of one file (`spinwright analyze --format json`), documented in
 // docs/analysis.schema.json. Ranges are zero-based, as in LSP. Analysis layer.
 import type { DocumentAnalysis } from "./analyze";
+import type { Predictions } from "./predictions";
 
 const round = (x: number | null | undefined, digits = 12): number | null =>
   x === null || x === undefined || !Number.isFinite(x) ? null : Number(x.toPrecision(digits));
@@ -58,6 +59,7 @@ export function analysisJson(file: string, a: DocumentAnalysis): Record<string, 
         }
       : null,
     regionReason: p && !p.family.placement ? p.family.description : null,
+    predictions: p ? predictionsJson(p.predictions) : null,
     resonance: p
       ? {
           protected: p.resonance.protected,
@@ -75,5 +77,42 @@ export function analysisJson(file: string, a: DocumentAnalysis): Record<string, 
             : null,
         }
       : null,
+  };
+}
+
+function predictionsJson(p: Predictions): Record<string, unknown> {
+  return {
+    applicable: p.applicable,
+    reason: p.reason,
+    regime: p.regime,
+    zeemanMeV: round(p.zeemanMeV),
+    magnetization: { m: round(p.magnetization.value), method: p.magnetization.method, valid: p.magnetization.valid, reason: p.magnetization.reason },
+    saturationMeV: round(p.saturationMeV.value),
+    saturationFieldT: round(p.saturationFieldT),
+    saturationMethod: p.saturationMeV.method,
+    velocityMeV: round(p.velocityMeV.value),
+    velocityMethod: p.velocityMeV.method,
+    branches: {
+      valid: p.branches.valid,
+      reason: p.branches.reason,
+      lowerAtZeroMeV: round(p.branches.lowerAtZeroMeV),
+      upperAtZeroMeV: round(p.branches.upperAtZeroMeV),
+      splittingMeV: round(p.branches.splittingMeV),
+      splittingOverZeeman: round(p.branches.splittingOverZeeman),
+      coupling: round(p.branches.coupling),
+      method: p.branches.method,
+      alternatives: p.branches.alternatives.map((a) => ({ ...a, splittingMeV: round(a.splittingMeV) })),
+    },
+    nearSaturation: {
+      valid: p.nearSaturation.valid,
+      reason: p.nearSaturation.reason,
+      upperAtZeroMeV: round(p.nearSaturation.upperAtZeroMeV),
+      weight: p.nearSaturation.weight,
+      method: p.nearSaturation.method,
+      points: p.nearSaturation.points.map((x) => ({ qOverPi: round(x.qOverPi), upperMeV: round(x.upperMeV) })),
+    },
+    dmDoublet: p.dmDoublet,
+    curve: p.curve.map((c) => ({ qOverPi: round(c.qOverPi, 8), lowerMeV: round(c.lowerMeV, 10), upperMeV: round(c.upperMeV, 10), lowerWeight: round(c.lowerWeight, 8), upperWeight: round(c.upperWeight, 8) })),
+    sweep: p.sweep.map((x) => ({ ...x, zeemanMeV: round(x.zeemanMeV), m: round(x.m), splittingMeV: round(x.splittingMeV) })),
   };
 }

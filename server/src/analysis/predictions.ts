@@ -256,14 +256,14 @@ export function predict(model: SpinModel, physics: Omit<PhysicsSummary, "predict
     const r = xxzMagnetization(c.delta, hJ);
     magnetization = { value: r.m, method: `Bethe ansatz, dressed-energy equation (Griffiths 1964), ${r.method}`, valid: r.converged, reason: r.converged ? null : "quadrature not converged" };
   } else if (exact) magnetization = { value: ringMagnetization(exact, h), method: `exact diagonalization, ${exact.sites}-site ring, level crossings E(Sz+1) - E(Sz), line through the step midpoints`, valid: true, reason: null };
-  else magnetization = none("no closed form for this chain: run the exact check (spinwright solve) for m(h)", "unavailable");
+  else magnetization = none("no closed form for this chain: run the exact check (--exact in the CLI, the exact-check lens in the editor) for m(h)", "unavailable");
   const m = magnetization.value;
 
   // Velocity.
   let velocityMeV: Valued<number>;
   if (xxzBethe) velocityMeV = { value: xxzVelocity(c.delta) * J, method: "Bethe ansatz, v = (pi/2) J sin(gamma)/gamma (des Cloizeaux & Pearson 1962)", valid: true, reason: null };
   else if (exact?.velocityMeV) velocityMeV = { value: exact.velocityMeV, method: `exact diagonalization, lowest excitation at k = 2 pi/${exact.sites}`, valid: true, reason: null };
-  else velocityMeV = none("no closed form for this chain: run the exact check for the velocity", "unavailable");
+  else velocityMeV = none("no closed form for this chain: run the exact check (--exact) for the velocity", "unavailable");
   const v = velocityMeV.value;
 
   const gapless = physics.family.placement?.gapless ?? (c.nearestOnly && c.delta > -1 && c.delta <= 1 ? true : null);
@@ -296,7 +296,7 @@ export function predict(model: SpinModel, physics: Omit<PhysicsSummary, "predict
       method = `exact diagonalization, ${exact.sites}-site ring (spin-current pole), interpolated in m`;
       coupling = v !== null ? ex / (2 * Math.PI * v * m) : null;
     }
-    if (splitting === null) branchReason = m > FIELD_THEORY_MAX_M ? `m = ${m.toFixed(3)} is beyond the field-theory range (m <= ${FIELD_THEORY_MAX_M}); run the exact check for the splitting` : "the velocity is unknown; run the exact check";
+    if (splitting === null) branchReason = m > FIELD_THEORY_MAX_M ? `m = ${m.toFixed(3)} is beyond the field-theory range (m <= ${FIELD_THEORY_MAX_M}); run the exact check (--exact) for the splitting` : "the velocity is unknown; run the exact check (--exact)";
     else if (m > TWO_BRANCH_MAX_M) branchReason = null;
   }
   const branchesValid = splitting !== null && branchReason === null;
