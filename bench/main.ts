@@ -1,11 +1,13 @@
 // `npm run bench`: runs every benchmark and prints its figures with their targets.
 import { benchParse } from "./parse";
 import { benchPredictions } from "./predictions";
+import { benchEd } from "./ed";
 
 async function run(): Promise<void> {
   const sections: [string, () => Promise<string[]> | string[]][] = [
     ["syntax and model", benchParse],
     ["analytic predictions", benchPredictions],
+    ["exact diagonalization", benchEd],
   ];
   for (const [name, fn] of sections) {
     console.log(`# ${name}`);

@@ -18,10 +18,11 @@ const ALLOWED: Record<string, string[]> = {
   physics: ["physics"],
   model: ["base", "syntax", "model", "physics"],
   analysis: ["base", "syntax", "model", "physics", "analysis"],
-  service: ["base", "syntax", "model", "physics", "analysis", "service"],
+  render: ["base", "syntax", "model", "physics", "analysis", "render"],
+  service: ["base", "syntax", "model", "physics", "analysis", "render", "service"],
   host: ["base", "syntax", "model", "physics", "analysis", "host"],
-  lsp: ["base", "syntax", "model", "physics", "analysis", "service", "host", "lsp"],
-  cli: ["base", "syntax", "model", "physics", "analysis", "service", "host", "cli"],
+  lsp: ["base", "syntax", "model", "physics", "analysis", "render", "service", "host", "lsp"],
+  cli: ["base", "syntax", "model", "physics", "analysis", "render", "service", "host", "cli"],
 };
 
 const PACKAGES_FORBIDDEN: Record<string, RegExp> = {
@@ -33,6 +34,7 @@ const PACKAGES_FORBIDDEN: Record<string, RegExp> = {
   service: /^vscode-languageserver($|\/)|^vscode$/,
   cli: /^vscode/,
   host: /^vscode/,
+  render: /^(vscode|chevrotain|mathjs)/,
 };
 
 describe("layering", () => {

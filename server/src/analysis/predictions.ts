@@ -305,7 +305,8 @@ export function predict(model: SpinModel, physics: Omit<PhysicsSummary, "predict
   const vAtM = m !== null && xxzBethe && m > 0 && m < 0.5 ? xxzDressedVelocity(c.delta, m) * J : v;
   const curve: Predictions["curve"][number][] = [];
   if (branchesValid && vAtM !== null && m !== null && splitting !== null) {
-    const grid = Array.from({ length: 41 }, (_, i) => (i / 40) * Math.min(Math.PI, (2 * Math.abs(h)) / Math.max(1e-300, vAtM)));
+    // Small q only: the lower branch reaches zero near q = h/v, where the description ends.
+    const grid = Array.from({ length: 41 }, (_, i) => (i / 40) * Math.min(Math.PI, (0.8 * Math.abs(h)) / Math.max(1e-300, vAtM)));
     const bc = branchCurve(h, vAtM, splitting, m, grid);
     bc.q.forEach((q, i) =>
       curve.push({ qOverPi: q / Math.PI, lowerMeV: bc.lowerEnergy[i] ?? NaN, upperMeV: bc.upperEnergy[i] ?? NaN, lowerWeight: bc.lowerWeight[i] ?? NaN, upperWeight: bc.upperWeight[i] ?? NaN }),
@@ -421,3 +422,22 @@ export function predict(model: SpinModel, physics: Omit<PhysicsSummary, "predict
 }
 
 export { xxzFieldForMagnetization };
+
+/**
+ * m(h) on a grid from 0 to 1.1 times the saturation field, by the same method as the file's own
+ * magnetization (Bethe ansatz or the exact ring); null when neither applies. For plots.
+ */
+export function magnetizationCurve(p: Predictions, exact: ExactCalibration | null, points = 48): { zeemanMeV: number; m: number }[] | null {
+  const c = p.couplings;
+  const hs = p.saturationMeV.value;
+  if (!c || hs === null) return null;
+  const bethe = c.nearestOnly && c.delta > -1 && c.delta <= 1;
+  if (!bethe && !exact) return null;
+  const out: { zeemanMeV: number; m: number }[] = [];
+  for (let i = 0; i <= points; i++) {
+    const h = (1.1 * hs * i) / points;
+    const m = h >= hs ? 0.5 : bethe ? xxzMagnetization(c.delta, h / c.jMeV).m : ringMagnetization(exact as ExactCalibration, h);
+    out.push({ zeemanMeV: h, m });
+  }
+  return out;
+}

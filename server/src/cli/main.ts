@@ -7,6 +7,7 @@ import { diffModels, renderDiff } from "../analysis/diff";
 import { exportCluster } from "./export";
 import { formatJson, formatSarif, formatText, type FileDiagnostics } from "./format";
 import { renderReport } from "./report";
+import { renderPlotSvg } from "../render/plot";
 import { CliFailure, runCalibration, runSolve, solveJson, solveText } from "./solve";
 import type { ExactCalibration } from "../analysis/predictions";
 
@@ -19,6 +20,7 @@ Usage:
   spinwright report FILE... [--exact [--sites N]]
   spinwright analyze FILE... [--format json] [--exact [--sites N]]
   spinwright solve FILE [--sites N] [--format text|json]
+  spinwright plot FILE [--exact [--sites N]] -o OUT.svg
   spinwright diff OLD.spw NEW.spw [--format text|json|markdown]
   spinwright export FILE [--cluster N | --cluster N,M] [--output PATH]
   spinwright help
@@ -125,6 +127,14 @@ export async function main(argv: readonly string[]): Promise<number> {
         output(JSON.stringify(objects.length === 1 ? objects[0] : objects, null, 2), options);
         return hasErrors(results) ? 1 : 0;
       }
+      case "plot": {
+        if (files.length !== 1) throw new UsageError("plot takes exactly one file");
+        if (!options.get("--output")) throw new UsageError("plot needs -o OUT.svg");
+        const [r] = await withExact(analyzeFiles(files), options);
+        if (!r) return 2;
+        output(renderPlotSvg(r.analysis, { exact: lastCalibration }), options);
+        return 0;
+      }
       case "solve": {
         if (files.length !== 1) throw new UsageError("solve takes exactly one file");
         const [r] = analyzeFiles(files);
@@ -206,6 +216,8 @@ function sitesOption(options: Map<string, string>): number | undefined {
   return n;
 }
 
+let lastCalibration: ExactCalibration | null = null;
+
 /** With --exact, calibrates each chain model on a ring and analyzes it again with those numbers. */
 async function withExact(
   results: { file: string; analysis: DocumentAnalysis }[],
@@ -216,6 +228,7 @@ async function withExact(
   const out: { file: string; analysis: DocumentAnalysis }[] = [];
   for (const r of results) {
     const cal: ExactCalibration | null = r.analysis.physics?.predictions.couplings ? await runCalibration(r.analysis, sites) : null;
+    lastCalibration = cal;
     out.push(cal ? { file: r.file, analysis: analyzeDocument(r.analysis.text, { exact: () => cal }) } : r);
   }
   return out;

@@ -12,7 +12,6 @@
 // ranks lo among the low parts with the same digit sum and ib is the offset of block hi. When the
 // tables would be much larger than the space itself (few-magnon sectors of long chains) a binary
 // search in the sorted code list is used instead.
-import { CancelledError } from "./errors";
 
 export interface CancelCheck {
   (): void;
@@ -493,8 +492,4 @@ export class Basis {
       this.space.bytes
     );
   }
-}
-
-export function throwIfAborted(signal: { aborted: boolean } | undefined): void {
-  if (signal?.aborted) throw new CancelledError();
 }

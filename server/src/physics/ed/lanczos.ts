@@ -14,7 +14,6 @@
 // eigenvector component)^2. Loss of orthogonality only produces duplicate ("ghost") copies of
 // converged poles whose weights add up to the true weight; poles closer than `mergeTol` are
 // merged.
-import { CancelledError } from "./errors";
 import { symmetricEigen, tridiagonalEigen } from "./symEigen";
 
 export interface VectorOperator {
@@ -246,14 +245,21 @@ export function lanczosEigen(op: VectorOperator, opts: EigenOptions, hooks: Loop
     // ---- thick restart
     const eig = finish(m);
     const keep = Math.min(m - 2, Math.max(nev + 2, Math.floor(m / 2)));
-    // V'_i = sum_l Y[l][i] V_l for i < keep, done element-wise in place
-    const tmp = new Float64Array(m);
-    for (let e = 0; e < len; e++) {
-      for (let l = 0; l < m; l++) tmp[l] = V[l]![e]!;
+    // V'_i = sum_l Y[l][i] V_l for i < keep, in place, in cache-sized blocks of elements
+    const B = 256;
+    const tmp = new Float64Array(m * B);
+    for (let e0 = 0; e0 < len; e0 += B) {
+      const nb = Math.min(B, len - e0);
+      for (let l = 0; l < m; l++) tmp.set(V[l]!.subarray(e0, e0 + nb), l * B);
       for (let i = 0; i < keep; i++) {
-        let s = 0;
-        for (let l = 0; l < m; l++) s += eig.vectors[l * m + i]! * tmp[l]!;
-        V[i]![e] = s;
+        const out = V[i]!;
+        for (let e = 0; e < nb; e++) out[e0 + e] = 0;
+        for (let l = 0; l < m; l++) {
+          const y = eig.vectors[l * m + i]!;
+          if (y === 0) continue;
+          const base = l * B;
+          for (let e = 0; e < nb; e++) out[e0 + e] = out[e0 + e]! + y * tmp[base + e]!;
+        }
       }
     }
     // residual direction becomes vector `keep`
@@ -592,8 +598,4 @@ function polesOf(
     i = j;
   }
   return { poles, unconverged: uncon / norm2, largest: largest / norm2 };
-}
-
-export function throwIfCancelled(signal: { aborted: boolean } | undefined): void {
-  if (signal?.aborted) throw new CancelledError();
 }

@@ -113,7 +113,14 @@ export function compileModel(cluster: SpinCluster, opts: CompileOptions = {}): C
     else {
       const inv = checkTranslationInvariance(cluster, perm);
       if (inv) warnings.push(`translation not used: ${inv}`);
-      else relabel = r;
+      else {
+        relabel = r;
+        const given = cluster.translationPeriods?.[0];
+        if (given !== undefined && given !== r.translation!.L)
+          warnings.push(`translationPeriods[0] = ${given} but the permutation has period ${r.translation!.L}; using ${r.translation!.L}`);
+        if (cluster.translations!.length > 1)
+          warnings.push("only the first translation generator is used for momentum sectors");
+      }
     }
   }
   const pos = relabel.position;

@@ -10,6 +10,14 @@
 // the cell index along the translation if positions are inconsistent), so S_q maps k to k + q.
 // For open clusters x_j = positions[j][0].
 //
+// METHOD. Every requested sector (S^z, n) is diagonalized matrix-free (sector.ts; the sparse rows
+// are cached when the memory budget allows). With levels = 1 the sector energies come from the
+// plain three-term Lanczos recurrence (its lowest Ritz value is immune to loss of orthogonality),
+// levels > 1 use thick-restart Lanczos with full re-orthogonalisation (lanczos.ts). The sector
+// with the lowest energy is then re-run with full re-orthogonalisation for the ground-state
+// vector. Convergence: residual ||H x - E x|| <= tolerance x ||H|| (||H|| estimated by the largest
+// |Ritz value|), default tolerance 1e-10. Correlators: Lanczos continued fraction on A|0>.
+//
 // RESULT FIELDS (ExactResult, JSON-serializable):
 //   sites                   number of sites N
 //   dimension               dimension of the sector that holds the ground state
@@ -24,9 +32,9 @@
 //                           residuals (||H x - E x|| per level), matvecs, converged.
 //                           When H is real in the S^z basis, E(k) = E(-k) (complex conjugation) and
 //                           only 0 <= n <= L/2 is diagonalized (`mirrorMomenta` = true).
-//   groundState             {sz, k, kIndex} of the ground state (lowest over all diagonalized
-//                           sectors; ties go to the first sector in scan order: lowest |Sz| first is
-//                           NOT implied, sectors are scanned in increasing Sz then n).
+//   groundState             {sz, k, kIndex, residual, matvecs, converged} of the ground state: the
+//                           lowest sector energy over all diagonalized sectors (ties within 1e-12
+//                           relative go to the first sector scanned: increasing S^z, then n).
 //   groundEnergyMeV         total ground-state energy; groundEnergyPerSiteMeV = that / N
 //   magnetization           <S^z_tot>/N in the ground state (working frame)
 //   energiesBySz[]          U(1): {sz, energyMeV (lowest over the momenta, fields included),
@@ -36,16 +44,22 @@
 //                           h' in [lo, hi] (E0 = zero-field energies; null for an open end); else null
 //   correlators[]           {q (radians per translation step), qIndex (n, null without translations),
 //                           component, targetSector {sz, kIndex}, poles [{energyMeV (E_n - E_0),
-//                           weight}], sumRule {total (sum of pole weights), expected
-//                           (<0|A^dagger A|0>/N from the vector A|0> itself)}, steps (Lanczos steps),
-//                           unconvergedWeight (fraction of weight in poles whose Ritz residual is
-//                           above the pole tolerance)}. Components, all per site (weights / N):
+//                           weight}], sumRule {total (sum of pole weights from the tridiagonal
+//                           eigen-decomposition), expected (<0|A^dagger A|0>/N = |A|0>|^2/N from the
+//                           vector)}, steps (Lanczos steps), unconvergedWeight and largestUnconverged
+//                           (total / largest weight fraction of poles whose Ritz residual is above
+//                           1e-6 ||H||)}. The fraction stops when largestUnconverged <= weightTol
+//                           (default 1e-3) or after maxSteps (default 200). Components, per site
+//                           (weights / N), with S^a_q = sum_j e^{-i q x_j} S^a_j:
 //                             "-+"       A = S^-_q : weights |<n|S^-_q|0>|^2 / N. For H = H0 - h S^z
-//                                        with SU(2) H0 this is 2m delta(w - h) at q = 0 (Larmor).
-//                             "+-"       A = S^+_q
+//                                        with SU(2) H0 this is 2m delta(w - h) at q = 0 (Larmor):
+//                                        the lowering operator creates the excitation at +h.
+//                             "+-"       A = S^+_q : weights |<n|S^+_q|0>|^2 / N
 //                             "zz"       A = S^z_q (q = 0 includes the elastic pole at w = 0)
 //                             "current-" A = K^- = sum_j (S^z_j S^-_{T(j)} - S^-_j S^z_{T(j)}),
 //                                        q = 0 only, bonds j -> T(j) along the translation.
+//                           Default: "-+" at q = 0, 2 pi/L, 4 pi/L and "current-" (q = 0 only
+//                           without translations).
 //   larmor                  from "-+" at q = 0: zeemanMeV (uniform field along the frame axis, else
 //                           null), singlePole (one pole holds >= 1 - 1e-9 of the weight and sits at
 //                           h within relative 1e-9), offsetFromZeemanMeV (mean - h), meanMeV and
@@ -60,10 +74,11 @@
 //                           2 (w_u(q1) - h) - (w_u(q2) - h). In the two-branch form of physics-notes
 //                           section 6, w_u - h = Delta/2 + sqrt((vq)^2 + (Delta/2)^2), so this
 //                           estimate tends to Delta for v q1 << Delta but only to about Delta/2 for
-//                           v q1 >> Delta (on 16-24-site Heisenberg rings it comes out 10-35 %
-//                           below fromCurrent).
+//                           v q1 >> Delta: on 16-24-site rings (J2 = 0-0.24, m = 1/16-1/10) it
+//                           came out 15-45 % below fromCurrent.
 //                           fromBranchSum: w_u(q1) + w_l(q1) - 2h, which equals Delta exactly in that
-//                           two-branch form for every q (no extrapolation).
+//                           two-branch form for every q (no extrapolation); about 15-20 % below
+//                           fromCurrent in the same runs.
 //                           Branches: lower/upper = the largest-weight pole below/above h.
 //                           null where not applicable (no uniform field, pole missing).
 //   velocityMeV             (E(k0 + 2 pi/L) - E0)/(2 pi/L) in the zero-field ground-state sector:
