@@ -123,3 +123,15 @@ describe("spinwright solve and --exact", () => {
     expect(r.err).toMatch(/--sites takes a whole number/);
   });
 });
+
+describe("spinwright diff as a git diff driver", () => {
+  it("takes git's seven arguments (path old hex mode new hex mode) and exits 0 so git goes on", () => {
+    const dir = mkdtempSync(join(tmpdir(), "spw-git-"));
+    const base = readFileSync(join(root, "samples", "heisenberg-chain-field.spw"), "utf8");
+    writeFileSync(join(dir, "new.spw"), base.replace("expect su2", "exchange dm(0.1 * J1, (0, 0, 1)) on Cu -> Cu + (1)\n  expect su2"));
+    const r = run("diff", "samples/m.spw", "samples/heisenberg-chain-field.spw", "0000000", "100644", join(dir, "new.spw"), "1111111", "100644");
+    expect(r.code).toBe(0);
+    expect(r.out).toMatch(/^spinwright diff a\/samples\/m\.spw -> b\/samples\/m\.spw/);
+    expect(r.out).toMatch(/protected -> not protected/);
+  });
+});

@@ -151,15 +151,21 @@ export async function main(argv: readonly string[]): Promise<number> {
         return 0;
       }
       case "diff": {
-        // As a git difftool or diff driver the files come first; extra arguments are ignored.
-        const [oldFile, newFile] = files;
-        if (!oldFile || !newFile) throw new UsageError("diff takes two files: OLD.spw NEW.spw");
+        // As a git diff driver (diff.<name>.command) git passes seven arguments:
+        // path old-file old-hex old-mode new-file new-hex new-mode. Git stops on a non-zero exit
+        // of an external diff, so in that mode the exit code is always 0.
+        const gitDriver = files.length === 7;
+        const oldFile = gitDriver ? files[1] : files[0];
+        const newFile = gitDriver ? files[4] : files[1];
+        if (!oldFile || !newFile || (!gitDriver && files.length !== 2)) throw new UsageError("diff takes two files: OLD.spw NEW.spw");
         const d = diffModels(analyzeDocument(readSource(oldFile)), analyzeDocument(readSource(newFile)));
         const format = options.get("--format") ?? (options.has("--markdown") ? "markdown" : "text");
+        const shownOld = gitDriver ? `a/${files[0]}` : oldFile;
+        const shownNew = gitDriver ? `b/${files[0]}` : newFile;
         if (format === "json") output(JSON.stringify(d, null, 2), options);
-        else if (format === "markdown" || format === "text") output(renderDiff(d, oldFile, newFile, format === "markdown"), options);
+        else if (format === "markdown" || format === "text") output(renderDiff(d, shownOld, shownNew, format === "markdown"), options);
         else throw new UsageError(`unknown format ${format} (text, json, markdown)`);
-        return d.significant ? 1 : 0;
+        return gitDriver ? 0 : d.significant ? 1 : 0;
       }
       case "export": {
         if (files.length !== 1) throw new UsageError("export takes exactly one file");

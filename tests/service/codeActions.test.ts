@@ -1,0 +1,101 @@
+// Quick fixes: each is applied and the resulting text compared with the expected one; the
+// diagnostic it fixes must be gone after a new analysis.
+import { describe, expect, it } from "vitest";
+import { analyzeDocument } from "../../server/src/analysis/analyze";
+import type { DiagnosticCode } from "../../server/src/base/diagnostics";
+import { codeActions, type CodeAction } from "../../server/src/service/codeActions";
+import { applyEdits, CHAIN } from "./fixtures";
+
+function fixesFor(text: string, code: DiagnosticCode): CodeAction[] {
+  const a = analyzeDocument(text);
+  const d = a.diagnostics.find((x) => x.code === code);
+  if (!d) throw new Error(`no ${code} in the fixture; found ${a.diagnostics.map((x) => x.code).join(", ")}`);
+  return codeActions(a, d.span).filter((c) => c.diagnostic.code === code);
+}
+
+function applyPreferred(text: string, code: DiagnosticCode): string {
+  const fix = fixesFor(text, code).find((c) => c.isPreferred);
+  if (!fix) throw new Error(`no preferred fix for ${code}`);
+  return applyEdits(text, fix.edits);
+}
+
+function codes(text: string): string[] {
+  return analyzeDocument(text).diagnostics.map((d) => d.code);
+}
+
+describe("code actions", () => {
+  it("adds the convention after the spin statement", () => {
+    const text = `model "m" {\n  spin 1/2\n  lattice chain\n}\n`;
+    const fixed = applyPreferred(text, "spw-convention-missing");
+    expect(fixed).toBe(`model "m" {\n  spin 1/2\n  convention antiferro-positive\n  lattice chain\n}\n`);
+    expect(codes(fixed)).not.toContain("spw-convention-missing");
+    expect(fixesFor(text, "spw-convention-missing").map((c) => c.title).join("\n")).toContain("ferro-positive");
+  });
+
+  it("adds the convention before the first statement when there is no spin statement", () => {
+    const text = `model "m" {\n    lattice chain\n}\n`;
+    expect(applyPreferred(text, "spw-convention-missing")).toBe(`model "m" {\n    convention antiferro-positive\n    lattice chain\n}\n`);
+  });
+
+  it("removes a spin-1/2 anisotropy (a constant) with its line", () => {
+    const fixed = applyPreferred(CHAIN, "spw-single-ion-constant");
+    expect(fixed).toBe(CHAIN.replace("  anisotropy Cu D = 0.5 K E = 0.1 K axis (0, 0, 1)\n", ""));
+    expect(codes(fixed)).not.toContain("spw-single-ion-constant");
+  });
+
+  it("removes a duplicate bond from a bond list", () => {
+    const fixed = applyPreferred(CHAIN, "spw-bond-duplicate");
+    expect(fixed).toBe(CHAIN.replace("on Cu -> Cu + (2), shell 2", "on Cu -> Cu + (2)"));
+    expect(codes(fixed)).not.toContain("spw-bond-duplicate");
+  });
+
+  it("removes a whole exchange statement that only repeats a bond", () => {
+    const text = CHAIN.replace("on Cu -> Cu + (2), shell 2", "on Cu -> Cu + (2)").replace(
+      "  exchange dm(",
+      "  exchange heisenberg(J1) on Cu -> Cu + (-1)\n  exchange dm(",
+    );
+    const fixed = applyPreferred(text, "spw-bond-duplicate");
+    expect(fixed).toBe(text.replace("  exchange heisenberg(J1) on Cu -> Cu + (-1)\n", ""));
+  });
+
+  it("does not remove a shell whose other bonds are new", () => {
+    // Shell 1 of the ladder holds the two legs and the rung; only A -> A + (1) is a repeat.
+    const text = `model "m" {\n  convention antiferro-positive\n  lattice ladder\n  let J = 1 meV\n  exchange heisenberg(J) on A -> A + (1), shell 1\n}\n`;
+    expect(fixesFor(text, "spw-bond-duplicate")).toEqual([]);
+  });
+
+  it("suggests the known site, lattice, exchange kind and name for a misspelling", () => {
+    const site = CHAIN.replace("on Cu -> Cu + (1)\n", "on Cu -> Cv + (1)\n");
+    expect(applyPreferred(site, "spw-site-unknown")).toBe(CHAIN);
+    const lattice = CHAIN.replace("lattice chain", "lattice chian");
+    expect(applyPreferred(lattice, "spw-lattice-unknown")).toBe(CHAIN);
+    const kind = CHAIN.replace("exchange heisenberg(J1)", "exchange heisenbrg(J1)");
+    expect(applyPreferred(kind, "spw-kind-unknown")).toBe(CHAIN);
+    const name = CHAIN.replace("let Dz = 0.02 * J1", "let Dz = 0.02 * J11");
+    expect(applyPreferred(name, "spw-name-unknown")).toBe(CHAIN);
+  });
+
+  it("adds a unit to a bare coupling value at its definition", () => {
+    const text = CHAIN.replace("let J1 = 14.2 K", "let J1 = 14.2");
+    const titles = fixesFor(text, "spw-unit-missing").map((c) => c.title);
+    expect(titles.some((t) => t.includes("K"))).toBe(true);
+    const fixed = applyPreferred(text, "spw-unit-missing");
+    expect(fixed).toBe(CHAIN.replace("let J1 = 14.2 K", "let J1 = 14.2 meV"));
+    expect(codes(fixed)).not.toContain("spw-unit-missing");
+  });
+
+  it("adds a field unit to a bare field value", () => {
+    const text = CHAIN.replace("field 3.5 T", "field 3.5");
+    expect(applyPreferred(text, "spw-unit-missing")).toBe(CHAIN);
+  });
+
+  it("changes a symmetry claim to the computed symmetry", () => {
+    // A DM vector along z leaves U(1) about z (physics-notes section 3), not SU(2).
+    const text = CHAIN.replace("expect u1 about (0, 0, 1)", "expect su2");
+    const fixed = applyPreferred(text, "spw-expect-mismatch");
+    expect(fixed).toBe(CHAIN);
+    expect(codes(fixed)).not.toContain("spw-expect-mismatch");
+    const tilted = CHAIN.replace("expect u1 about (0, 0, 1)", "expect u1 about (1, 0, 0)");
+    expect(applyPreferred(tilted, "spw-expect-mismatch")).toBe(CHAIN);
+  });
+});

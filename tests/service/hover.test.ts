@@ -1,0 +1,113 @@
+// Hover at the service boundary: parameter values in the written unit and in meV, K, GHz; the
+// Zeeman energy g muB B in meV, GHz, K, cm^-1 with g along the field from the site g-tensor.
+// Reference numbers come from the SI/CODATA 2018 constants written out below, not from units.ts.
+import { describe, expect, it } from "vitest";
+import { doHover } from "../../server/src/service/hover";
+import { analyzeMarked, CHAIN, LADDER } from "./fixtures";
+
+// CODATA 2018 (Tiesinga et al., Rev. Mod. Phys. 93, 025010 (2021)); kB, h, e exact in the SI.
+const KB_J_PER_K = 1.380649e-23;
+const H_J_S = 6.62607015e-34;
+const E_C = 1.602176634e-19;
+const MU_B_EV_PER_T = 5.788381806e-5;
+const MU_B_GHZ_PER_T = 13.9962449361;
+const MU_B_K_PER_T = 0.67171381563;
+const MU_B_CM_PER_T = 0.466864478;
+const MEV_PER_K = (KB_J_PER_K / E_C) * 1e3;
+const GHZ_PER_K = KB_J_PER_K / H_J_S / 1e9;
+
+function hoverAt(source: string): string {
+  const { a, offset } = analyzeMarked(source);
+  const h = doHover(a, offset);
+  if (!h) throw new Error("no hover");
+  return h.markdown;
+}
+
+/** The number printed before `unit` (first occurrence after `from`). */
+function numberBefore(text: string, unit: string, from = 0): number {
+  const re = new RegExp(`(-?[0-9][0-9.e+-]*) ${unit.replace(/[\^]/g, "\\^")}(?![A-Za-z])`, "g");
+  re.lastIndex = from;
+  const m = re.exec(text);
+  if (!m?.[1]) throw new Error(`no value in ${unit} in: ${text}`);
+  return Number(m[1]);
+}
+
+/** Hovers print 5 significant digits: a relative tolerance of 1e-4 covers the rounding. */
+function expectRelClose(actual: number, expected: number, rel = 1e-4): void {
+  expect(Math.abs(actual - expected)).toBeLessThanOrEqual(rel * Math.abs(expected));
+}
+
+describe("hover on a parameter", () => {
+  it("shows the value in the written unit and in meV, K and GHz", () => {
+    const text = hoverAt(CHAIN.replace("heisenberg(J1)", "heisenberg(J$01)"));
+    expect(text).toContain("**J1**");
+    expect(numberBefore(text, "K")).toBeCloseTo(14.2, 10);
+    // 14.2 K in meV and GHz from kB/e and kB/h (exact SI constants).
+    expectRelClose(numberBefore(text, "meV"), 14.2 * MEV_PER_K);
+    expectRelClose(numberBefore(text, "GHz"), 14.2 * GHZ_PER_K);
+    expect(text).toContain("CODATA 2018");
+  });
+
+  it("follows a parameter defined through another one (0.18 * J1 in kelvin)", () => {
+    const text = hoverAt(CHAIN.replace("let J2 = 0.18", "let J$02 = 0.18"));
+    expectRelClose(numberBefore(text, "K"), 0.18 * 14.2);
+    expectRelClose(numberBefore(text, "meV"), 0.18 * 14.2 * MEV_PER_K);
+  });
+
+  it("is the same on the definition and on a use", () => {
+    const onUse = hoverAt(CHAIN.replace("heisenberg(J1)", "heisenberg(J1$0)"));
+    const onDef = hoverAt(CHAIN.replace("let J1 =", "let $0J1 ="));
+    expect(onUse).toBe(onDef);
+  });
+});
+
+describe("hover on the field", () => {
+  it("gives the Zeeman energy g muB B in meV, GHz, K and cm^-1", () => {
+    const text = hoverAt(CHAIN.replace("field 3.5 T", "fi$0eld 3.5 T"));
+    const g = 2.06;
+    const fieldT = 3.5;
+    // E_Z = g muB B (physics-notes section 2), muB from CODATA 2018 in each unit.
+    expectRelClose(numberBefore(text, "meV"), g * fieldT * MU_B_EV_PER_T * 1e3);
+    expectRelClose(numberBefore(text, "GHz"), g * fieldT * MU_B_GHZ_PER_T);
+    expectRelClose(numberBefore(text, "K"), g * fieldT * MU_B_K_PER_T);
+    expectRelClose(numberBefore(text, "cm^-1"), g * fieldT * MU_B_CM_PER_T);
+  });
+
+  it("takes g along the field from the g-tensor of each site", () => {
+    const text = hoverAt(LADDER.replace("field 2 T", "field 2$0 T"));
+    // n = (1, 0, 1)/sqrt(2); g_A = diag(2, 2, 2.2): |g^T n| = sqrt((2^2 + 2.2^2) / 2); g_B = 2.
+    const gA = Math.sqrt((2 ** 2 + 2.2 ** 2) / 2);
+    const lineA = text.split("\n").find((l) => l.startsWith("- A:"));
+    const lineB = text.split("\n").find((l) => l.startsWith("- B:"));
+    if (!lineA || !lineB) throw new Error(`no per-site lines in: ${text}`);
+    expectRelClose(Number(/g = ([0-9.]+)/.exec(lineA)?.[1]), gA);
+    expectRelClose(numberBefore(lineA, "meV"), gA * 2 * MU_B_EV_PER_T * 1e3);
+    expectRelClose(numberBefore(lineB, "GHz"), 2 * 2 * MU_B_GHZ_PER_T);
+  });
+});
+
+describe("other hovers", () => {
+  it("shows a site's spin and g", () => {
+    const text = hoverAt(CHAIN.replace("g Cu = 2.06", "g C$0u = 2.06"));
+    expect(text).toContain("**Cu**");
+    expect(text).toContain("S = 1/2");
+    expect(text).toContain("g = 2.06");
+  });
+
+  it("shows the exchange matrix after the convention", () => {
+    const text = hoverAt(CHAIN.replace("exchange heisenberg(J1)", "exchange heis$0enberg(J1)"));
+    expect(text).toContain("heisenberg(J)");
+    // The diagonal holds J1 = 14.2 K in meV, printed with 4 digits.
+    expect(text).toContain((14.2 * MEV_PER_K).toPrecision(4));
+  });
+
+  it("converts a number with a unit", () => {
+    const text = hoverAt(CHAIN.replace("D = 0.5 K", "D = 0.5$0 K"));
+    expectRelClose(numberBefore(text, "meV"), 0.5 * MEV_PER_K);
+  });
+
+  it("says nothing inside a comment", () => {
+    const { a, offset } = analyzeMarked(CHAIN.replace("Invented scenario", "Invented sc$0enario"));
+    expect(doHover(a, offset)).toBeNull();
+  });
+});
