@@ -1,8 +1,7 @@
-// Protocol tests: the built server (dist/server.js) over stdio with a real JSON-RPC client:
+// Protocol tests of the built server (dist/server.js) over stdio with a real JSON-RPC client:
 // initialize, didOpen, pull diagnostics, hover, completion, rename, formatting, code actions,
-// semantic tokens, the summary request, shutdown/exit with code 0, and stdout holding nothing
-// but protocol frames. A second server plays a client without pull diagnostics (push mode).
-// Synchronisation is by responses and notifications only, never by sleeping.
+// semantic tokens, summary, shutdown/exit with code 0, stdout holding only protocol frames; a
+// second server plays a client without pull (push mode). Synchronised by messages, never sleeps.
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type {
   CodeAction,

@@ -1,6 +1,6 @@
 // Architecture invariants of the editor layers: the service layer imports no editor or LSP
 // library and nothing above it; only server/src/lsp imports vscode-languageserver; the client
-// imports no analysis code (it talks to the server only).
+// imports no analysis code (it reaches the server only by requests).
 import { readdirSync, readFileSync, statSync } from "node:fs";
 import { join } from "node:path";
 import { describe, expect, it } from "vitest";

@@ -7,8 +7,8 @@ import * as S from "../../server/src/service/index";
 import { CHAIN, LADDER } from "./fixtures";
 
 /** A linear congruential generator (Numerical Recipes constants) for reproducible damage. */
-function lcg(seed: number): () => number {
-  let x = seed >>> 0;
+function lcg(variant: number): () => number {
+  let x = variant >>> 0;
   return () => {
     x = (Math.imul(x, 1664525) + 1013904223) >>> 0;
     return x / 2 ** 32;
@@ -17,8 +17,8 @@ function lcg(seed: number): () => number {
 
 const PIECES = ["(", ")", "[", "]", "{", "}", ",", "=", "->", "+", "-", "*", "/", "^", "#", '"', "$", "1e999", "0", "K", "T", "cm^-", "let", "on", "exchange", "lattice", "shell", "\n", " ", "é", "\u{1F600}", "\r"];
 
-function damaged(base: string, seed: number): string {
-  const r = lcg(seed);
+function damaged(base: string, variant: number): string {
+  const r = lcg(variant);
   let text = base;
   const steps = 1 + Math.floor(r() * 4);
   for (let k = 0; k < steps; k++) {
@@ -67,22 +67,22 @@ describe("robustness of the editor features", () => {
   });
 
   it("survives 120 damaged versions of the fixtures", () => {
-    for (let seed = 1; seed <= 120; seed++) {
-      const text = damaged(seed % 2 ? CHAIN : LADDER, seed);
-      expect(() => exercise(text), `seed ${seed}`).not.toThrow();
+    for (let variant = 1; variant <= 120; variant++) {
+      const text = damaged(variant % 2 ? CHAIN : LADDER, variant);
+      expect(() => exercise(text), `variant ${variant}`).not.toThrow();
     }
   });
 
   it("formats damaged files only when that keeps every token", () => {
-    for (let seed = 200; seed < 260; seed++) {
-      const text = damaged(CHAIN, seed);
+    for (let variant = 200; variant < 260; variant++) {
+      const text = damaged(CHAIN, variant);
       const a = analyzeDocument(text);
       const edits = S.formatDocument(a);
       if (edits.length === 0) continue;
       let out = text;
       for (const e of [...edits].sort((x, y) => y.span.start - x.span.start)) out = out.slice(0, e.span.start) + e.newText + out.slice(e.span.end);
       const strip = (s: string) => s.replace(/\s+/g, "");
-      expect(strip(out), `seed ${seed}`).toBe(strip(text));
+      expect(strip(out), `variant ${variant}`).toBe(strip(text));
     }
   });
 });

@@ -1,4 +1,5 @@
-// Outline (document symbols), folding ranges and selection ranges at the service boundary.
+// Outline (document symbols), folding ranges and selection ranges at the service boundary,
+// checked on the chain fixture and on a broken file.
 import { describe, expect, it } from "vitest";
 import { analyzeDocument } from "../../server/src/analysis/analyze";
 import { foldingRanges } from "../../server/src/service/folding";

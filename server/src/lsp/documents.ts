@@ -1,0 +1,83 @@
+// The analysis cache of the language server, keyed by document uri and version, and the
+// debouncer that analyses after a pause in typing and drops work for versions that are no
+// longer current. LSP layer (no vscode-languageserver import needed: plain TypeScript).
+import { analyzeDocument, type DocumentAnalysis } from "../analysis/analyze";
+
+export interface VersionedText {
+  readonly uri: string;
+  readonly version: number;
+  getText(): string;
+}
+
+export interface CachedAnalysis {
+  readonly uri: string;
+  readonly version: number;
+  /** Null when the analysis itself failed (logged); features then answer with nothing. */
+  readonly analysis: DocumentAnalysis | null;
+  /** Changes with every new analysis: the pull-diagnostics result id. */
+  readonly resultId: string;
+  /** Milliseconds the analysis took. */
+  readonly elapsedMs: number;
+}
+
+export class AnalysisCache {
+  private readonly entries = new Map<string, CachedAnalysis>();
+  private serial = 0;
+
+  constructor(
+    private readonly onError: (uri: string, error: unknown) => void,
+    private readonly analyze: (text: string) => DocumentAnalysis = analyzeDocument,
+  ) {}
+
+  /** The analysis of exactly this version, computed now if it is not cached. */
+  get(doc: VersionedText): CachedAnalysis {
+    const cached = this.entries.get(doc.uri);
+    if (cached && cached.version === doc.version) return cached;
+    const started = performance.now();
+    let analysis: DocumentAnalysis | null = null;
+    try {
+      analysis = this.analyze(doc.getText());
+    } catch (error) {
+      this.onError(doc.uri, error);
+    }
+    const entry: CachedAnalysis = { uri: doc.uri, version: doc.version, analysis, resultId: `${++this.serial}`, elapsedMs: performance.now() - started };
+    this.entries.set(doc.uri, entry);
+    return entry;
+  }
+
+  peek(uri: string): CachedAnalysis | undefined {
+    return this.entries.get(uri);
+  }
+
+  delete(uri: string): void {
+    this.entries.delete(uri);
+  }
+}
+
+/** Runs one job per document after `delayMs` of quiet; a newer schedule replaces the older. */
+export class Debouncer {
+  private readonly timers = new Map<string, ReturnType<typeof setTimeout>>();
+
+  constructor(private readonly delayMs: number) {}
+
+  schedule(uri: string, job: () => void): void {
+    this.cancel(uri);
+    this.timers.set(
+      uri,
+      setTimeout(() => {
+        this.timers.delete(uri);
+        job();
+      }, this.delayMs),
+    );
+  }
+
+  cancel(uri: string): void {
+    const t = this.timers.get(uri);
+    if (t !== undefined) clearTimeout(t);
+    this.timers.delete(uri);
+  }
+
+  cancelAll(): void {
+    for (const uri of [...this.timers.keys()]) this.cancel(uri);
+  }
+}

@@ -1,0 +1,419 @@
+// The language server shared by the stdio (Node) and Web Worker entries: capabilities, document
+// cache, debounced analysis, pull diagnostics (push for clients without pull), `spinwright.`
+// settings, and each editor feature as a guarded wrapper over the service layer (a failure is
+// logged and answered with an empty result). LSP layer: the only importer of vscode-languageserver.
+import {
+  CodeActionKind,
+  DidChangeConfigurationNotification,
+  DocumentDiagnosticReportKind,
+  ErrorCodes,
+  ResponseError,
+  SemanticTokensBuilder,
+  TextDocumentSyncKind,
+  TextDocuments,
+  type CodeLens as LspCodeLens,
+  type Connection,
+  type DocumentDiagnosticReport,
+  type InitializeParams,
+  type InitializeResult,
+  type SelectionRange,
+  type ServerCapabilities,
+} from "vscode-languageserver";
+import { TextDocument } from "vscode-languageserver-textdocument";
+import type { DocumentAnalysis } from "../analysis/analyze";
+import * as service from "../service/index";
+import { toDocumentSymbol, toLspCodeAction, toLspCompletion, toLspDiagnostic, toLspEdits, toRange } from "./convert";
+import { AnalysisCache, Debouncer, type CachedAnalysis } from "./documents";
+
+export const SERVER_NAME = "spinwright";
+export const SERVER_VERSION = "0.1.0";
+/** Pause after the last keystroke before a pushed analysis (pull clients ask themselves). */
+export const DEBOUNCE_MS = 50;
+
+export interface ServerSettings extends service.ServiceSettings {
+  readonly exactCheckAutomatic: boolean;
+}
+
+export const DEFAULT_SERVER_SETTINGS: ServerSettings = { ...service.DEFAULT_SETTINGS, exactCheckAutomatic: false };
+
+/** Reads the `spinwright` configuration section defensively (nested or flat dotted keys). */
+export function readSettings(raw: unknown): ServerSettings {
+  const r = raw !== null && typeof raw === "object" ? (raw as Record<string, unknown>) : {};
+  const exact = r["exactCheck"] !== null && typeof r["exactCheck"] === "object" ? (r["exactCheck"] as Record<string, unknown>) : {};
+  const pick = (nested: unknown, flat: unknown): unknown => (nested !== undefined ? nested : flat);
+  const units = r["displayUnits"];
+  const maxSites = pick(exact["maxSites"], r["exactCheck.maxSites"]);
+  const automatic = pick(exact["automatic"], r["exactCheck.automatic"]);
+  return {
+    displayUnits: typeof units === "string" ? units : DEFAULT_SERVER_SETTINGS.displayUnits,
+    exactCheckMaxSites: typeof maxSites === "number" && Number.isFinite(maxSites) && maxSites > 0 ? Math.floor(maxSites) : DEFAULT_SERVER_SETTINGS.exactCheckMaxSites,
+    exactCheckAutomatic: typeof automatic === "boolean" ? automatic : DEFAULT_SERVER_SETTINGS.exactCheckAutomatic,
+  };
+}
+
+/** Custom requests of ours, namespaced. */
+export const SUMMARY_REQUEST = "spinwright/summary";
+export const REPORT_REQUEST = "spinwright/report";
+
+export function startServer(connection: Connection): void {
+  const documents = new TextDocuments(TextDocument);
+  const cache = new AnalysisCache((uri, error) => logError(`analysis of ${uri}`, error));
+  const debouncer = new Debouncer(DEBOUNCE_MS);
+  let settings: ServerSettings = DEFAULT_SERVER_SETTINGS;
+  let pullDiagnostics = false;
+  let snippetSupport = false;
+  let configurationPull = false;
+  let dynamicConfiguration = false;
+  let docsUri: string | null = null;
+
+  function logError(what: string, error: unknown): void {
+    const text = error instanceof Error ? `${error.message}\n${error.stack ?? ""}` : String(error);
+    try {
+      connection.console.error(`${what} failed: ${text}`);
+    } catch {
+      // The connection itself is gone; nothing left to tell.
+    }
+  }
+
+  /** Wraps a handler: any exception is logged and answered with `fallback`. */
+  function guard<P, R>(name: string, fallback: R, handler: (params: P) => R | Promise<R>): (params: P) => Promise<R> {
+    return async (params: P) => {
+      try {
+        return await handler(params);
+      } catch (error) {
+        if (error instanceof ResponseError) throw error;
+        logError(name, error);
+        return fallback;
+      }
+    };
+  }
+
+  function analysisOf(uri: string): { entry: CachedAnalysis; a: DocumentAnalysis } | null {
+    const doc = documents.get(uri);
+    if (!doc) return null;
+    const entry = cache.get(doc);
+    return entry.analysis ? { entry, a: entry.analysis } : null;
+  }
+
+  function offsetOf(a: DocumentAnalysis, position: { line: number; character: number }): number {
+    return a.lines.offsetAt(position);
+  }
+
+  function publish(uri: string): void {
+    const doc = documents.get(uri);
+    if (!doc) return;
+    const entry = cache.get(doc);
+    const a = entry.analysis;
+    void connection.sendDiagnostics({
+      uri,
+      version: doc.version,
+      diagnostics: a ? a.diagnostics.map((d) => toLspDiagnostic(a, uri, d, docsUri)) : [],
+    });
+  }
+
+  connection.onInitialize((params: InitializeParams): InitializeResult => {
+    const caps = params.capabilities;
+    pullDiagnostics = caps.textDocument?.diagnostic !== undefined;
+    snippetSupport = caps.textDocument?.completion?.completionItem?.snippetSupport === true;
+    configurationPull = caps.workspace?.configuration === true;
+    dynamicConfiguration = caps.workspace?.didChangeConfiguration?.dynamicRegistration === true;
+    const init = (params.initializationOptions ?? {}) as Record<string, unknown>;
+    if (typeof init["diagnosticsDocUri"] === "string") docsUri = init["diagnosticsDocUri"];
+    if (init["settings"] !== undefined) settings = readSettings(init["settings"]);
+    const capabilities: ServerCapabilities = {
+      textDocumentSync: TextDocumentSyncKind.Incremental,
+      hoverProvider: true,
+      completionProvider: { triggerCharacters: [" ", "(", ">", ","], resolveProvider: false },
+      signatureHelpProvider: { triggerCharacters: ["(", ","], retriggerCharacters: [","] },
+      definitionProvider: true,
+      referencesProvider: true,
+      documentHighlightProvider: true,
+      renameProvider: { prepareProvider: true },
+      documentSymbolProvider: true,
+      foldingRangeProvider: true,
+      selectionRangeProvider: true,
+      documentFormattingProvider: true,
+      codeActionProvider: { codeActionKinds: [CodeActionKind.QuickFix] },
+      codeLensProvider: { resolveProvider: false },
+      inlayHintProvider: { resolveProvider: false },
+      semanticTokensProvider: {
+        legend: { tokenTypes: [...service.SEMANTIC_TOKEN_TYPES], tokenModifiers: [...service.SEMANTIC_TOKEN_MODIFIERS] },
+        full: true,
+        range: false,
+      },
+    };
+    if (pullDiagnostics) capabilities.diagnosticProvider = { identifier: SERVER_NAME, interFileDependencies: false, workspaceDiagnostics: false };
+    return { capabilities, serverInfo: { name: SERVER_NAME, version: SERVER_VERSION } };
+  });
+
+  async function refreshSettings(): Promise<void> {
+    if (!configurationPull) return;
+    try {
+      settings = readSettings(await connection.workspace.getConfiguration({ section: "spinwright" }));
+    } catch (error) {
+      logError("reading the spinwright settings", error);
+    }
+  }
+
+  /** After a settings change: ask the client to redraw what depends on settings. */
+  function refreshViews(): void {
+    const ignore = (): void => undefined;
+    connection.languages.inlayHint.refresh().catch(ignore);
+    connection.sendRequest("workspace/codeLens/refresh").catch(ignore);
+    if (pullDiagnostics) connection.languages.diagnostics.refresh().catch(ignore);
+  }
+
+  connection.onInitialized(
+    guard("initialized", undefined, async () => {
+      if (dynamicConfiguration) await connection.client.register(DidChangeConfigurationNotification.type, { section: "spinwright" });
+      await refreshSettings();
+    }),
+  );
+
+  connection.onDidChangeConfiguration(
+    guard("configuration change", undefined, async (change) => {
+      if (configurationPull) await refreshSettings();
+      else if (change.settings !== null && typeof change.settings === "object") settings = readSettings((change.settings as Record<string, unknown>)["spinwright"]);
+      refreshViews();
+    }),
+  );
+
+  documents.onDidOpen(
+    guard("open", undefined, (e) => {
+      if (!pullDiagnostics) publish(e.document.uri);
+    }),
+  );
+
+  documents.onDidChangeContent(
+    guard("change", undefined, (e) => {
+      const uri = e.document.uri;
+      const version = e.document.version;
+      debouncer.schedule(uri, () => {
+        // A newer version replaced this one while we waited: its own schedule takes over.
+        const current = documents.get(uri);
+        if (!current || current.version !== version) return;
+        try {
+          if (pullDiagnostics) cache.get(current);
+          else publish(uri);
+        } catch (error) {
+          logError("debounced analysis", error);
+        }
+      });
+    }),
+  );
+
+  documents.onDidClose(
+    guard("close", undefined, (e) => {
+      debouncer.cancel(e.document.uri);
+      cache.delete(e.document.uri);
+      if (!pullDiagnostics) void connection.sendDiagnostics({ uri: e.document.uri, diagnostics: [] });
+    }),
+  );
+
+  const emptyReport: DocumentDiagnosticReport = { kind: DocumentDiagnosticReportKind.Full, items: [] };
+  connection.languages.diagnostics.on(
+    guard("diagnostics", emptyReport, (params): DocumentDiagnosticReport => {
+      const uri = params.textDocument.uri;
+      const doc = documents.get(uri);
+      if (!doc) return emptyReport;
+      const entry = cache.get(doc);
+      if (params.previousResultId === entry.resultId) return { kind: DocumentDiagnosticReportKind.Unchanged, resultId: entry.resultId };
+      const a = entry.analysis;
+      return { kind: DocumentDiagnosticReportKind.Full, resultId: entry.resultId, items: a ? a.diagnostics.map((d) => toLspDiagnostic(a, uri, d, docsUri)) : [] };
+    }),
+  );
+
+  connection.onHover(
+    guard("hover", null, (p) => {
+      const x = analysisOf(p.textDocument.uri);
+      if (!x) return null;
+      const h = service.doHover(x.a, offsetOf(x.a, p.position));
+      return h ? { contents: { kind: "markdown" as const, value: h.markdown }, range: toRange(x.a, h.span) } : null;
+    }),
+  );
+
+  connection.onCompletion(
+    guard("completion", [], (p) => {
+      const x = analysisOf(p.textDocument.uri);
+      if (!x) return [];
+      return service.doComplete(x.a, offsetOf(x.a, p.position)).map((item) => toLspCompletion(x.a, item, snippetSupport));
+    }),
+  );
+
+  connection.onSignatureHelp(
+    guard("signature help", null, (p) => {
+      const x = analysisOf(p.textDocument.uri);
+      if (!x) return null;
+      const help = service.signatureHelp(x.a, offsetOf(x.a, p.position));
+      if (!help) return null;
+      return {
+        signatures: help.signatures.map((s) => ({
+          label: s.label,
+          documentation: s.documentation,
+          parameters: s.parameters.map((q) => ({ label: q.label, documentation: q.documentation })),
+        })),
+        activeSignature: help.activeSignature,
+        activeParameter: help.activeParameter,
+      };
+    }),
+  );
+
+  connection.onDefinition(
+    guard("definition", null, (p) => {
+      const x = analysisOf(p.textDocument.uri);
+      if (!x) return null;
+      const span = service.findDefinition(x.a, offsetOf(x.a, p.position));
+      return span ? { uri: p.textDocument.uri, range: toRange(x.a, span) } : null;
+    }),
+  );
+
+  connection.onReferences(
+    guard("references", [], (p) => {
+      const x = analysisOf(p.textDocument.uri);
+      if (!x) return [];
+      return service
+        .findReferences(x.a, offsetOf(x.a, p.position), p.context.includeDeclaration)
+        .map((span) => ({ uri: p.textDocument.uri, range: toRange(x.a, span) }));
+    }),
+  );
+
+  connection.onDocumentHighlight(
+    guard("highlight", [], (p) => {
+      const x = analysisOf(p.textDocument.uri);
+      if (!x) return [];
+      // DocumentHighlightKind: 2 = Read, 3 = Write.
+      return service.documentHighlights(x.a, offsetOf(x.a, p.position)).map((h) => ({ range: toRange(x.a, h.span), kind: h.kind === "write" ? 3 : 2 }) as const);
+    }),
+  );
+
+  connection.onPrepareRename(
+    guard("prepare rename", null, (p) => {
+      const x = analysisOf(p.textDocument.uri);
+      if (!x) return null;
+      const r = service.prepareRename(x.a, offsetOf(x.a, p.position));
+      if (!r.ok) throw new ResponseError(ErrorCodes.InvalidRequest, r.reason);
+      return { range: toRange(x.a, r.span), placeholder: r.placeholder };
+    }),
+  );
+
+  connection.onRenameRequest(
+    guard("rename", null, (p) => {
+      const x = analysisOf(p.textDocument.uri);
+      if (!x) return null;
+      const r = service.rename(x.a, offsetOf(x.a, p.position), p.newName);
+      if (!r.ok) throw new ResponseError(ErrorCodes.InvalidRequest, r.reason);
+      return { changes: { [p.textDocument.uri]: toLspEdits(x.a, r.edits) } };
+    }),
+  );
+
+  connection.onDocumentSymbol(
+    guard("symbols", [], (p) => {
+      const x = analysisOf(p.textDocument.uri);
+      return x ? service.documentSymbols(x.a).map((s) => toDocumentSymbol(x.a, s)) : [];
+    }),
+  );
+
+  connection.onFoldingRanges(
+    guard("folding", [], (p) => {
+      const x = analysisOf(p.textDocument.uri);
+      return x ? service.foldingRanges(x.a).map((f) => ({ startLine: f.startLine, endLine: f.endLine, ...(f.kind ? { kind: f.kind } : {}) })) : [];
+    }),
+  );
+
+  connection.onSelectionRanges(
+    guard("selection ranges", [], (p) => {
+      const x = analysisOf(p.textDocument.uri);
+      if (!x) return [];
+      return p.positions.map((pos) => {
+        const spans = service.selectionSpans(x.a, offsetOf(x.a, pos));
+        let range: SelectionRange | undefined;
+        for (let k = spans.length - 1; k >= 0; k--) {
+          const span = spans[k]!;
+          range = range ? { range: toRange(x.a, span), parent: range } : { range: toRange(x.a, span) };
+        }
+        return range ?? { range: { start: pos, end: pos } };
+      });
+    }),
+  );
+
+  connection.onDocumentFormatting(
+    guard("formatting", [], (p) => {
+      const x = analysisOf(p.textDocument.uri);
+      return x ? toLspEdits(x.a, service.formatDocument(x.a)) : [];
+    }),
+  );
+
+  connection.onCodeAction(
+    guard("code actions", [], (p) => {
+      const x = analysisOf(p.textDocument.uri);
+      if (!x) return [];
+      if (p.context.only && !p.context.only.some((k) => k === CodeActionKind.QuickFix || CodeActionKind.QuickFix.startsWith(`${k}.`) || k === "")) return [];
+      const range = { start: offsetOf(x.a, p.range.start), end: offsetOf(x.a, p.range.end) };
+      return service.codeActions(x.a, range).map((c) => toLspCodeAction(x.a, p.textDocument.uri, c, docsUri));
+    }),
+  );
+
+  connection.onCodeLens(
+    guard("code lens", [], (p): LspCodeLens[] => {
+      const x = analysisOf(p.textDocument.uri);
+      if (!x) return [];
+      return service.codeLenses(x.a, p.textDocument.uri, settings).map((l) => ({
+        range: toRange(x.a, l.span),
+        command: { title: l.title, command: l.command, arguments: [...l.arguments] },
+      }));
+    }),
+  );
+
+  connection.languages.inlayHint.on(
+    guard("inlay hints", [], (p) => {
+      const x = analysisOf(p.textDocument.uri);
+      if (!x) return [];
+      const range = { start: offsetOf(x.a, p.range.start), end: offsetOf(x.a, p.range.end) };
+      return service.inlayHints(x.a, range, settings).map((h) => ({
+        position: x.a.lines.positionAt(h.offset),
+        label: h.label,
+        tooltip: h.tooltip,
+        paddingLeft: true,
+      }));
+    }),
+  );
+
+  connection.languages.semanticTokens.on(
+    guard("semantic tokens", { data: [] }, (p) => {
+      const x = analysisOf(p.textDocument.uri);
+      if (!x) return { data: [] };
+      const builder = new SemanticTokensBuilder();
+      const types = service.SEMANTIC_TOKEN_TYPES as readonly string[];
+      const modifiers = service.SEMANTIC_TOKEN_MODIFIERS as readonly string[];
+      for (const t of service.semanticTokens(x.a)) {
+        const start = x.a.lines.positionAt(t.span.start);
+        const mask = t.modifiers.reduce((m, name) => m | (1 << modifiers.indexOf(name)), 0);
+        builder.push(start.line, start.character, t.span.end - t.span.start, types.indexOf(t.type), mask);
+      }
+      return builder.build();
+    }),
+  );
+
+  connection.onRequest(
+    SUMMARY_REQUEST,
+    guard("summary", null, (p: { uri?: string }) => {
+      const x = typeof p?.uri === "string" ? analysisOf(p.uri) : null;
+      return x ? { version: x.entry.version, analysisMs: x.entry.elapsedMs, summary: service.analysisSummary(x.a, settings) } : null;
+    }),
+  );
+
+  connection.onRequest(
+    REPORT_REQUEST,
+    guard("report", null, (p: { uri?: string }) => {
+      const x = typeof p?.uri === "string" ? analysisOf(p.uri) : null;
+      if (!x || typeof p.uri !== "string") return null;
+      const name = decodeURIComponent(p.uri.split("/").pop() ?? p.uri);
+      return { markdown: service.summaryMarkdown(service.analysisSummary(x.a, settings), name) };
+    }),
+  );
+
+  connection.onShutdown(() => debouncer.cancelAll());
+
+  documents.listen(connection);
+  connection.listen();
+}

@@ -1,0 +1,213 @@
+// Hover: what the word under the cursor means and what it resolves to: parameter values in the
+// written unit and in meV, K, GHz; the Zeeman energy g muB B on the field; exchange matrices,
+// sites, presets, units and keywords; the physics summary on the model name. Service layer.
+import type { DocumentAnalysis } from "../analysis/analyze";
+import type { Span } from "../base/text";
+import { describeBond } from "../model/build";
+import { PRESETS } from "../model/lattice";
+import type { SpinModel } from "../model/model";
+import { CONSTANTS, UNITS, unitKey } from "../model/units";
+import type { Expr, Statement } from "../syntax/ast";
+import { statementExprs, walkExpr } from "../syntax/ast";
+import { isKeyword } from "../syntax/lexer";
+import { energyText, firstModel, formatNumber, spanContains, statementAt, symbolAt, tokenAt, tokenSpan } from "./common";
+import { physicsItems } from "./physicsView";
+import { energyConversions, parameterValueText, zeemanLines, zeemanText } from "./quantities";
+import { CLAUSE_WORDS, CONVENTIONS, KIND_SIGNATURES, STATEMENT_WORDS, SYMMETRY_CLAIMS, unitDescription } from "./vocabulary";
+
+export interface HoverResult {
+  readonly span: Span;
+  /** Markdown. */
+  readonly markdown: string;
+}
+
+const CODATA_NOTE = "_Conversions: CODATA 2018 (Tiesinga et al., Rev. Mod. Phys. 2021)._";
+
+export function doHover(a: DocumentAnalysis, offset: number): HoverResult | null {
+  const token = tokenAt(a, offset);
+  if (!token) return null;
+  const span = tokenSpan(token);
+  const model = a.model;
+  const statement = statementAt(a, offset);
+  const symbol = symbolAt(a, offset);
+
+  if (symbol && model) {
+    if (symbol.kind === "parameter") {
+      const text = parameterHover(a, model, symbol.name);
+      const field = statement?.kind === "field" && spanContains(statement.magnitude.span, offset) ? fieldHover(a, model) : null;
+      return text ? { span: symbol.span, markdown: field ? `${text}\n\n---\n\n${field}` : text } : null;
+    }
+    if (symbol.kind === "site") return { span: symbol.span, markdown: siteHover(model, symbol.name) };
+    if (symbol.kind === "vector") return { span: symbol.span, markdown: `**${symbol.name}**: lattice vector` };
+  }
+
+  const model0 = firstModel(a);
+  if (model0 && spanContains(model0.name.span, offset) && token.tokenType.name === "StringLiteral") {
+    return { span, markdown: modelHover(a) };
+  }
+
+  if (statement) {
+    const specific = statementHover(a, statement, offset, span);
+    if (specific) return specific;
+  }
+
+  const word = token.image;
+  if (isKeyword(word)) {
+    const doc = STATEMENT_WORDS.find((w) => w.word === word)?.summary ?? CLAUSE_WORDS[word];
+    if (doc) return { span, markdown: `**${word}**: ${doc}` };
+  }
+  const constant = CONSTANTS[word];
+  if (constant) return { span, markdown: `**${word}** = ${formatNumber(constant.value, 11)}${constant.energy ? " meV/T" : ""}: ${constant.label}` };
+  return null;
+}
+
+function parameterHover(a: DocumentAnalysis, model: SpinModel, name: string): string | null {
+  const p = model.parameters.get(name);
+  const statement = firstModel(a)?.statements.find((s) => s.kind === "let" && s.name.name === name);
+  const written = statement ? a.text.slice(statement.span.start, statement.span.end) : `let ${name} = ...`;
+  const out = [`**${name}** (parameter)`, "```spw\n" + written + "\n```"];
+  const value = p ? parameterValueText(a, p) : null;
+  out.push(value ? `= ${value}` : "_No value: see the diagnostics on its definition._");
+  const uses = model.exchanges.filter((e) => e.couplingName === name);
+  for (const e of uses.slice(0, 5)) {
+    const bonds = model.lattice ? e.bonds.map((b) => describeBond(model.lattice!, b.from, b.to, b.offset)) : [];
+    out.push(`- ${e.kind} on ${bonds.slice(0, 3).join(", ")}${bonds.length > 3 ? `, ... (${bonds.length} bonds per cell)` : ""}`);
+  }
+  if (p?.value && p.value.energy === 1 && p.value.field === 0) out.push(CODATA_NOTE);
+  return out.join("\n\n");
+}
+
+function siteHover(model: SpinModel, name: string): string {
+  const site = model.lattice?.sites.find((s) => s.name === name);
+  if (!site) return `**${name}**: site`;
+  const spin = Number.isInteger(site.spin) ? String(site.spin) : `${Math.round(2 * site.spin)}/2`;
+  const g = site.g;
+  const isotropic = [0, 1, 2].every((i) => [0, 1, 2].every((j) => (i === j ? g[i]?.[j] === g[0]?.[0] : g[i]?.[j] === 0)));
+  const gText = isotropic ? formatNumber(g[0]?.[0] ?? 0) : `[${g.map((r) => `[${r.map((x) => formatNumber(x)).join(", ")}]`).join(", ")}]`;
+  const lines = [
+    `**${name}** (site ${site.index + 1} of ${model.lattice?.sites.length ?? 1} per cell)`,
+    `- position (${site.position.map((x) => formatNumber(x)).join(", ")}) in lattice units`,
+    `- spin S = ${spin}`,
+    `- g = ${gText}${site.gSpan ? "" : " (default)"}`,
+  ];
+  return lines.join("\n");
+}
+
+/** The Zeeman energy of every site in the file's field, and the sweep's end if there is one. */
+function fieldHover(a: DocumentAnalysis, model: SpinModel): string | null {
+  const field = model.field;
+  if (!field) return null;
+  const out = [
+    `**field** ${formatNumber(field.magnitudeT)} T along (${field.direction.map((x) => formatNumber(x, 4)).join(", ")})`,
+    "Zeeman energy E_Z = g μB B, with g = |gᵀ n| along the field direction n:",
+  ];
+  for (const z of zeemanLines(model)) {
+    out.push(`- ${z.siteNames.join(", ")}: g = ${formatNumber(z.gAlongField)}, E_Z = ${zeemanText(z.energyMeV)}`);
+  }
+  if (field.sweep) {
+    const end = zeemanLines(model, field.sweep.toT);
+    out.push(`Sweep ${formatNumber(field.sweep.fromT)} T to ${formatNumber(field.sweep.toT)} T in ${field.sweep.steps} steps; at ${formatNumber(field.sweep.toT)} T: ${end.map((z) => energyText(z.energyMeV, "meV")).join(", ")}.`);
+  }
+  const resonance = a.physics?.resonance;
+  if (resonance?.hasField && resonance.reason) out.push(`q = 0 resonance: ${resonance.reason}`);
+  out.push("_μB and conversions: CODATA 2018 (Tiesinga et al., Rev. Mod. Phys. 2021)._");
+  return out.join("\n\n");
+}
+
+function modelHover(a: DocumentAnalysis): string {
+  const m = a.model;
+  const out = [`**model "${firstModel(a)?.name.name ?? ""}"**`];
+  if (m) {
+    const L = m.lattice;
+    if (L) out.push(`${L.preset ?? "custom"} lattice, ${L.dimension}D, ${L.sites.length} site(s) per cell; ${m.parameters.size} parameter(s), ${m.exchanges.length} exchange term(s)`);
+    out.push(`convention: ${m.convention?.value ?? "antiferro-positive (assumed)"}`);
+  }
+  for (const item of physicsItems(a)) out.push(`**${item.title}**\n\n${item.lines.map((l) => `- ${l}`).join("\n")}`);
+  const errors = a.diagnostics.filter((d) => d.severity === "error").length;
+  const warnings = a.diagnostics.filter((d) => d.severity === "warning").length;
+  out.push(`${errors} error(s), ${warnings} warning(s)`);
+  return out.join("\n\n");
+}
+
+/** The number expression (with or without unit) whose span holds `offset`. */
+function numberAt(statement: Statement, offset: number): Extract<Expr, { kind: "number" }> | null {
+  let best: Extract<Expr, { kind: "number" }> | null = null;
+  for (const e of statementExprs(statement))
+    walkExpr(e, (x) => {
+      if (x.kind === "number" && spanContains(x.span, offset)) best = x;
+    });
+  return best;
+}
+
+function statementHover(a: DocumentAnalysis, s: Statement, offset: number, span: Span): HoverResult | null {
+  const model = a.model;
+  const n = numberAt(s, offset);
+  if (n?.unit && s.kind !== "field") {
+    const key = unitKey(n.unit.name, n.unit.power);
+    const u = UNITS[key];
+    if (u) {
+      const canonical = n.value * u.toCanonical;
+      const text =
+        u.dimension === "energy" ? energyConversions(canonical, key).join(" = ") : `${formatNumber(n.value)} ${key} = ${formatNumber(canonical)} T`;
+      return { span: n.span, markdown: `${text}\n\n${unitDescription(key) ?? ""}\n\n${CODATA_NOTE}` };
+    }
+  }
+  switch (s.kind) {
+    case "field": {
+      if (!model?.field) return null;
+      const md = fieldHover(a, model);
+      return md ? { span, markdown: md } : null;
+    }
+    case "exchange": {
+      if (!spanContains(s.exchangeKind.span, offset)) return null;
+      const sigs = KIND_SIGNATURES[s.exchangeKind.name];
+      const out: string[] = [];
+      if (sigs) out.push(sigs.map((x) => `\`${x.label}\`: ${x.documentation}`).join("\n\n"));
+      else out.push(`Unknown exchange kind \`${s.exchangeKind.name}\`.`);
+      const term = model?.exchanges.find((e) => e.span.start === s.span.start);
+      if (term) {
+        const m = term.matrixMeV;
+        out.push(
+          "Matrix in H = Σ S_i · J · S_j (meV, after the sign convention):\n\n```\n" +
+            m.map((r) => r.map((x) => formatNumber(x, 4).padStart(10)).join(" ")).join("\n") +
+            "\n```",
+        );
+        out.push(`${term.bonds.length} bond(s) per cell.`);
+      }
+      return { span: s.exchangeKind.span, markdown: out.join("\n\n") };
+    }
+    case "latticePreset": {
+      if (!spanContains(s.preset.span, offset)) return null;
+      const p = PRESETS[s.preset.name];
+      if (!p) return { span: s.preset.span, markdown: `Unknown lattice preset \`${s.preset.name}\`. Presets: ${Object.keys(PRESETS).join(", ")}.` };
+      return {
+        span: s.preset.span,
+        markdown: `**${p.name}** lattice (${p.vectors.length}D): ${p.description}; sites ${p.sites.map((x) => x.name).join(", ")}; ${p.coordination} nearest neighbours.`,
+      };
+    }
+    case "convention": {
+      const doc = CONVENTIONS[s.value.name];
+      return doc && spanContains(s.value.span, offset) ? { span: s.value.span, markdown: `**${s.value.name}**: ${doc}` } : null;
+    }
+    case "expect": {
+      const doc = SYMMETRY_CLAIMS[s.claim.name];
+      return doc && spanContains(s.claim.span, offset) ? { span: s.claim.span, markdown: `**${s.claim.name}**: ${doc}` } : null;
+    }
+    case "probe": {
+      const e = model?.probe?.energyMeV;
+      if (e === undefined) return null;
+      const resonantT = a.physics?.resonance?.probe?.resonanceFieldT;
+      const resonance = typeof resonantT === "number" ? `\n\nResonant (h ν = g μB B) at B = ${formatNumber(resonantT)} T.` : "";
+      return { span, markdown: `**probe** ${energyConversions(e, null).join(" = ")} = ${energyText(e, "cm^-1")}${resonance}\n\n${CODATA_NOTE}` };
+    }
+    case "cluster": {
+      const c = model?.cluster;
+      const perCell = model?.lattice?.sites.length ?? 1;
+      if (!c) return null;
+      const cells = c.cells.reduce((p, x) => p * x, 1);
+      return { span, markdown: `**cluster** ${c.cells.join(" × ")} cells × ${perCell} site(s) = ${cells * perCell} sites, ${c.boundary} boundaries` };
+    }
+    default:
+      return null;
+  }
+}

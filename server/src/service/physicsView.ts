@@ -1,0 +1,82 @@
+// Turns the physics summary of an analysis into readable items for hovers and the preview:
+// symmetry with its breaking terms, couplings, frustration, the model family and its region,
+// the q = 0 resonance. The summary is still growing, so every field is read with optional
+// chaining and keys this file does not know yet are shown from their text fields. Service layer.
+import type { DocumentAnalysis } from "../analysis/analyze";
+import type { Vec3 } from "../physics/types";
+import { energyText, formatNumber } from "./common";
+
+/** One titled piece of the physics summary. */
+export interface PhysicsItem {
+  readonly title: string;
+  readonly lines: readonly string[];
+}
+
+const KNOWN = new Set(["symmetry", "couplings", "frustration", "family", "resonance"]);
+const TEXT_FIELDS = ["summary", "text", "message", "description", "reason", "consequence"];
+
+function axisText(n: Vec3 | null | undefined): string {
+  return n ? `(${n.map((x) => formatNumber(x, 4)).join(", ")})` : "";
+}
+
+function symmetryName(c: string | undefined, axis: Vec3 | null | undefined): string {
+  if (c === "su2") return "SU(2)";
+  if (c === "u1") return `U(1) about ${axisText(axis)}`;
+  return c === "none" ? "none" : (c ?? "unknown");
+}
+
+function asRecord(x: unknown): Record<string, unknown> | null {
+  return x !== null && typeof x === "object" && !Array.isArray(x) ? (x as Record<string, unknown>) : null;
+}
+
+/** Text fields of a value this view does not know (a newer summary key). */
+function genericLines(value: unknown): string[] {
+  if (typeof value === "string") return value.trim() ? [value.trim()] : [];
+  const r = asRecord(value);
+  if (!r) return [];
+  return TEXT_FIELDS.map((k) => r[k]).filter((v): v is string => typeof v === "string" && v.trim() !== "");
+}
+
+export function physicsItems(a: DocumentAnalysis): PhysicsItem[] {
+  const p = a.physics;
+  if (!p) return [];
+  const items: PhysicsItem[] = [];
+  const sym = p.symmetry;
+  if (sym) {
+    const lines = [`without the field: ${symmetryName(sym.h0, sym.axis)}`, `with the field: ${symmetryName(sym.full, sym.fullAxis)}`];
+    for (const b of sym.breaking ?? []) if (b?.consequence) lines.push(`${b.kind}: ${b.consequence}`);
+    items.push({ title: "Symmetry", lines });
+  }
+  const couplings = p.couplings ?? [];
+  if (couplings.length > 0)
+    items.push({
+      title: "Couplings",
+      lines: couplings.map(
+        (c) =>
+          `${c.name} (${c.kind}): ${c.character}, J = ${energyText(c.valueMeV, "meV")}${c.dmMeV ? `, |D| = ${energyText(c.dmMeV, "meV")}` : ""}, ${c.bondsPerCell} bond(s) per cell`,
+      ),
+    });
+  const frustrated = (p.frustration ?? []).filter((g) => g?.frustrated);
+  if (frustrated.length > 0) items.push({ title: "Frustration", lines: frustrated.map((g) => `${g.cycle} (${g.count} per cluster)`) });
+  const family = p.family;
+  if (family?.description) {
+    const lines = [family.description];
+    const place = family.placement;
+    if (place) lines.push(`${place.parameter} = ${formatNumber(place.value)}: ${place.name}${place.source ? ` (${place.source})` : ""}`);
+    items.push({ title: "Family", lines });
+  }
+  const res = p.resonance;
+  if (res) {
+    const lines: string[] = [];
+    if (res.reason) lines.push(res.reason);
+    if (res.probe?.resonanceFieldT != null) lines.push(`probe ${formatNumber(res.probe.frequencyGHz)} GHz is resonant at ${formatNumber(res.probe.resonanceFieldT)} T`);
+    if (res.dmDoublet) lines.push(`DM doublet: tan θ = D/J = ${formatNumber(res.dmDoublet.dMeV / res.dmDoublet.jMeV, 4)}`);
+    if (lines.length > 0) items.push({ title: "Resonance", lines });
+  }
+  for (const [key, value] of Object.entries(p as unknown as Record<string, unknown>)) {
+    if (KNOWN.has(key)) continue;
+    const lines = genericLines(value);
+    if (lines.length > 0) items.push({ title: key.charAt(0).toUpperCase() + key.slice(1), lines });
+  }
+  return items;
+}
