@@ -22,11 +22,21 @@ function table(headers: readonly string[], rows: readonly (readonly string[])[])
 }
 
 /** The panel's body: everything the summary holds, every text escaped. */
-export function summaryBody(s: AnalysisSummary | null, fileName: string): string {
+/**
+ * The plot from the server's renderer (the same SVG as `spinwright plot`), with the page's nonce
+ * on its style element so that the CSP admits it.
+ */
+export function plotSection(svg: string | null, nonce: string): string {
+  if (!svg || !svg.startsWith("<svg")) return "";
+  return `<div id="plot" class="plot">${svg.replace(/<style>/g, `<style nonce="${nonce}">`).replace(/<script[\s\S]*?<\/script>/gi, "")}</div>`;
+}
+
+export function summaryBody(s: AnalysisSummary | null, fileName: string, plot = ""): string {
   if (!s) return `<p class="muted">No analysis for ${escapeHtml(fileName)} yet.</p>`;
   const out: string[] = [];
   out.push(`<h1>${s.modelName !== null ? `Model “${escapeHtml(s.modelName)}”` : "No model block"}</h1>`);
   out.push(`<p class="muted">${escapeHtml(fileName)}</p>`);
+  if (plot) out.push(plot);
   const facts: string[][] = [["convention", s.convention]];
   if (s.lattice) facts.push(["lattice", s.lattice]);
   if (s.sites.length > 0) facts.push(["sites", s.sites.map((x) => `${x.name} (S = ${x.spin}, g = ${x.g})`).join(", ")]);
@@ -74,14 +84,35 @@ export function previewDocument(body: string, nonce: string, cspSource: string):
   .information .badge, .hint .badge { color: var(--vscode-editorInfo-foreground); }
   button { color: var(--vscode-button-foreground); background: var(--vscode-button-background); border: none; padding: 4px 10px; cursor: pointer; }
   button:hover { background: var(--vscode-button-hoverBackground); }
+  .plot svg { max-width: 100%; height: auto; }
 </style>
 </head>
 <body>
-<p><button id="copy" type="button">Copy report</button></p>
+<p><button id="copy" type="button">Copy report</button> <button id="exact" type="button">Run exact check</button> <button id="svg" type="button">Export SVG</button> <button id="png" type="button">Export PNG</button></p>
 <div id="root">${body}</div>
 <script nonce="${nonce}">
   const vscode = acquireVsCodeApi();
   document.getElementById("copy").addEventListener("click", () => vscode.postMessage({ type: "copyReport" }));
+  document.getElementById("exact").addEventListener("click", () => vscode.postMessage({ type: "exactCheck" }));
+  document.getElementById("svg").addEventListener("click", () => vscode.postMessage({ type: "exportSvg" }));
+  // PNG: draw the SVG on a canvas here (data: images are allowed by the CSP) and send the bytes.
+  document.getElementById("png").addEventListener("click", () => {
+    const svg = document.querySelector("#plot svg");
+    if (!svg) return;
+    const text = new XMLSerializer().serializeToString(svg);
+    const img = new Image();
+    img.onload = () => {
+      const canvas = document.createElement("canvas");
+      canvas.width = 2 * (svg.viewBox.baseVal.width || 960);
+      canvas.height = 2 * (svg.viewBox.baseVal.height || 380);
+      const ctx = canvas.getContext("2d");
+      ctx.fillStyle = getComputedStyle(document.body).backgroundColor || "#fff";
+      ctx.fillRect(0, 0, canvas.width, canvas.height);
+      ctx.drawImage(img, 0, 0, canvas.width, canvas.height);
+      vscode.postMessage({ type: "png", data: canvas.toDataURL("image/png") });
+    };
+    img.src = "data:image/svg+xml;base64," + btoa(unescape(encodeURIComponent(text)));
+  });
   window.addEventListener("message", (event) => {
     const message = event.data;
     if (message && message.type === "update" && typeof message.body === "string") document.getElementById("root").innerHTML = message.body;

@@ -111,3 +111,35 @@ describe("other hovers", () => {
     expect(doHover(a, offset)).toBeNull();
   });
 });
+
+describe("hover on the field and the symmetry claim: predictions and computed symmetry", () => {
+  const HEISENBERG = `model "h" {
+  convention antiferro-positive
+  lattice chain sites Cu
+  let J = 1 meV
+  exchange heisenberg(J) on shell 1
+  g Cu = 2
+  fie$0ld 0.5 T along (0, 0, 1)
+  expect su2
+}`;
+
+  it("the field hover lists the q = 0 branches with their method (Bethe ansatz m, field-theory splitting)", () => {
+    const md = hoverAt(HEISENBERG);
+    expect(md).toMatch(/Predicted near q = 0/);
+    expect(md).toMatch(/Larmor line at [0-9.]+ meV/);
+    expect(md).toMatch(/leading-order field theory/);
+    expect(md).toMatch(/Bethe ansatz/);
+  });
+
+  it("the field hover of a DM chain says why no splitting is given and shows the doublet", () => {
+    const md = hoverAt(HEISENBERG.replace("g Cu = 2", "exchange dm(0.05 * J, (0, 0, 1)) on Cu -> Cu + (1)\n  g Cu = 2").replace("0.5 T", "6 T"));
+    expect(md).toMatch(/DM doublet/);
+    expect(md).toMatch(/run the exact check/);
+  });
+
+  it("the expect hover gives the computed symmetry and the breaking terms", () => {
+    const md = hoverAt(HEISENBERG.replace("fie$0ld", "field").replace("expect su2", "exchange dm(0.05 * J, (0, 0, 1)) on Cu -> Cu + (1)\n  expect s$0u2"));
+    expect(md).toMatch(/Computed: without the field U\(1\) about \(0, 0, 1\)/);
+    expect(md).toMatch(/Dzyaloshinskii-Moriya/);
+  });
+});

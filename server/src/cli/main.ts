@@ -4,7 +4,7 @@ import { readFileSync, writeFileSync } from "node:fs";
 import { analyzeDocument, type DocumentAnalysis } from "../analysis/analyze";
 import { analysisJson } from "../analysis/json";
 import { diffModels, renderDiff } from "../analysis/diff";
-import { exportCluster } from "./export";
+import { exportCluster } from "../model/exportCluster";
 import { formatJson, formatSarif, formatText, type FileDiagnostics } from "./format";
 import { renderReport } from "./report";
 import { renderPlotSvg } from "../render/plot";

@@ -7,7 +7,7 @@ import { MEV_PER_GHZ, MEV_PER_K } from "../model/units";
 import { formatText } from "./format";
 import { describeClass, kindText } from "../analysis/symmetryCheck";
 import { MEV_PER_CM } from "../model/units";
-import type { Predictions } from "../analysis/predictions";
+import { predictionLines } from "../service/predictionsView";
 
 export function renderReport(file: string, a: DocumentAnalysis): string {
   const out: string[] = [];
@@ -94,41 +94,7 @@ function physicsLines(a: DocumentAnalysis): string[] {
   if (z.probe) out.push(`probe: ${fmt(z.probe.frequencyGHz)} GHz, resonant at ${z.probe.resonanceFieldT === null ? "no single field (g is not uniform)" : `${fmt(z.probe.resonanceFieldT)} T`}`);
   out.push(`q = 0 resonance: ${z.protected ? "protected" : "not protected"}: ${z.reason}`);
   if (z.dmDoublet) out.push(`  uniform DM parallel to the field: the line becomes a doublet, tan θ = D/J = ${fmt(z.dmDoublet.dMeV / Math.abs(z.dmDoublet.jMeV))}`);
-  out.push(...predictionLines(p.predictions));
+  out.push("predictions in the field:", ...predictionLines(p.predictions).map((l) => `  ${l}`));
   return out;
 }
 
-function predictionLines(p: Predictions): string[] {
-  const out: string[] = [];
-  if (!p.applicable) {
-    out.push(`predictions in the field: not available (${p.reason})`);
-    return out;
-  }
-  const val = (v: { value: number | null; method: string; reason: string | null }, unit: string): string =>
-    v.value === null ? `not available: ${v.reason}` : `${fmt(v.value)}${unit} [${v.method}]`;
-  out.push("predictions in the field:");
-  out.push(`  magnetization m = ${val(p.magnetization, " per site")}`);
-  out.push(`  saturation: ${val(p.saturationMeV, " meV")}${p.saturationFieldT !== null ? ` = ${fmt(p.saturationFieldT)} T along the field` : ""}`);
-  out.push(`  velocity: ${val(p.velocityMeV, " meV x lattice spacing")}`);
-  if (p.regime) out.push(`  regime: ${p.regime}`);
-  const b = p.branches;
-  if (b.valid && b.splittingMeV !== null)
-    out.push(`  q = 0 branches: Larmor line at ${fmt(b.lowerAtZeroMeV ?? 0)} meV (all the weight), second branch at ${fmt(b.upperAtZeroMeV ?? 0)} meV; splitting ${fmt(b.splittingMeV)} meV = ${fmt(b.splittingOverZeeman ?? 0)} h [${b.method}]`);
-  else out.push(`  q = 0 branches: no splitting given: ${b.reason}`);
-  for (const alt of b.alternatives) out.push(`    ${alt.method}: ${alt.splittingMeV === null ? "n/a" : `${fmt(alt.splittingMeV)} meV`}${alt.valid ? "" : ` (outside its validity: ${alt.note})`}`);
-  const n = p.nearSaturation;
-  out.push(n.valid && n.upperAtZeroMeV !== null ? `  near saturation: bound-state branch at ${fmt(n.upperAtZeroMeV)} meV at q = 0 [${n.method}]; ${n.weight}` : `  near saturation: ${n.reason}`);
-  const d = p.dmDoublet;
-  if (d) {
-    if (d.lowerMeV !== null && d.upperMeV !== null)
-      out.push(
-        `  DM doublet: ${fmt(d.lowerMeV)} meV (weight ${fmt(d.lowerWeightFraction ?? 0)}) and ${fmt(d.upperMeV)} meV (weight ${fmt(d.upperWeightFraction ?? 0)}); textbook h ± (π/2) D: ${fmt(d.naiveLowerMeV ?? 0)} and ${fmt(d.naiveUpperMeV ?? 0)} meV${d.valid ? "" : ` (${d.reason})`} [${d.method}]`,
-      );
-    else out.push(`  DM doublet: ${d.reason}`);
-  }
-  if (p.sweep.length) {
-    out.push(`  field sweep (B in T, h in meV, m per site [${p.sweep[0]?.method ?? ""}], splitting Δ in meV):`);
-    for (const s of p.sweep) out.push(`    B = ${fmt(s.fieldT).padEnd(8)} h = ${fmt(s.zeemanMeV).padEnd(10)} m = ${s.m === null ? "n/a" : fmt(s.m).padEnd(10)} Δ = ${s.splittingMeV === null ? "n/a" : `${fmt(s.splittingMeV).padEnd(10)} (${s.splittingMethod})`}`);
-  }
-  return out;
-}

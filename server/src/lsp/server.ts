@@ -20,7 +20,13 @@ import {
   type ServerCapabilities,
 } from "vscode-languageserver";
 import { TextDocument } from "vscode-languageserver-textdocument";
-import type { DocumentAnalysis } from "../analysis/analyze";
+import { analyzeDocument, type DocumentAnalysis } from "../analysis/analyze";
+import type { ExactCalibration } from "../analysis/predictions";
+import type { HeavyJob, JobResult } from "../host/jobs";
+import { buildFiniteCluster } from "../model/cluster";
+import { exportCluster } from "../model/exportCluster";
+import type { ExactResult } from "../physics/ed/solve";
+import { renderPlotSvg, type PlotPole } from "../render/plot";
 import * as service from "../service/index";
 import { toDocumentSymbol, toLspCodeAction, toLspCompletion, toLspDiagnostic, toLspEdits, toRange } from "./convert";
 import { AnalysisCache, Debouncer, type CachedAnalysis } from "./documents";
@@ -55,9 +61,32 @@ export function readSettings(raw: unknown): ServerSettings {
 export const SUMMARY_REQUEST = "spinwright/summary";
 export const REPORT_REQUEST = "spinwright/report";
 
-export function startServer(connection: Connection): void {
+export const EXACT_CHECK_REQUEST = "spinwright/exactCheck";
+export const PLOT_REQUEST = "spinwright/plot";
+
+/** What the host offers: heavy jobs off the main thread (absent in the browser build). */
+export interface ServerRuntime {
+  readonly runJob?: <J extends HeavyJob>(job: J, options: { signal: AbortSignal; onProgress: (fraction: number, stage: string) => void }) => Promise<JobResult<J>>;
+}
+
+/** Poles of the file's exact check on the plot's axes (q in units of pi). */
+function polesForPlot(r: ExactResult): PlotPole[] {
+  return r.correlators
+    .filter((c) => c.component === "-+")
+    .flatMap((c) => c.poles.filter((p) => p.weight > 1e-6).map((p) => ({ qOverPi: c.q / Math.PI, energyMeV: p.energyMeV, weight: p.weight })));
+}
+
+export function startServer(connection: Connection, runtime: ServerRuntime = {}): void {
   const documents = new TextDocuments(TextDocument);
-  const cache = new AnalysisCache((uri, error) => logError(`analysis of ${uri}`, error));
+  // Exact results: calibrations per coupling set (shared by every file with those couplings) and
+  // the last solve of each file's cluster, with the document version it was run on.
+  const calibrations = new Map<string, ExactCalibration>();
+  const solves = new Map<string, { version: number; result: ExactResult }>();
+  const running = new Map<string, AbortController>();
+  const cache = new AnalysisCache(
+    (uri, error) => logError(`analysis of ${uri}`, error),
+    (text) => analyzeDocument(text, { exact: (c) => calibrations.get(c.key) ?? null }),
+  );
   const debouncer = new Debouncer(DEBOUNCE_MS);
   let settings: ServerSettings = DEFAULT_SERVER_SETTINGS;
   let pullDiagnostics = false;
@@ -76,10 +105,10 @@ export function startServer(connection: Connection): void {
   }
 
   /** Wraps a handler: any exception is logged and answered with `fallback`. */
-  function guard<P, R>(name: string, fallback: R, handler: (params: P) => R | Promise<R>): (params: P) => Promise<R> {
-    return async (params: P) => {
+  function guard<P, R>(name: string, fallback: R, handler: (params: P, token?: unknown) => R | Promise<R>): (params: P, token?: unknown) => Promise<R> {
+    return async (params: P, token?: unknown) => {
       try {
-        return await handler(params);
+        return await handler(params, token);
       } catch (error) {
         if (error instanceof ResponseError) throw error;
         logError(name, error);
@@ -135,6 +164,7 @@ export function startServer(connection: Connection): void {
       documentFormattingProvider: true,
       codeActionProvider: { codeActionKinds: [CodeActionKind.QuickFix] },
       codeLensProvider: { resolveProvider: false },
+      executeCommandProvider: { commands: [] },
       inlayHintProvider: { resolveProvider: false },
       semanticTokensProvider: {
         legend: { tokenTypes: [...service.SEMANTIC_TOKEN_TYPES], tokenModifiers: [...service.SEMANTIC_TOKEN_MODIFIERS] },
@@ -187,6 +217,8 @@ export function startServer(connection: Connection): void {
   documents.onDidChangeContent(
     guard("change", undefined, (e) => {
       const uri = e.document.uri;
+      // An edit makes a running exact check stale: stop it.
+      running.get(uri)?.abort();
       const version = e.document.version;
       debouncer.schedule(uri, () => {
         // A newer version replaced this one while we waited: its own schedule takes over.
@@ -412,7 +444,113 @@ export function startServer(connection: Connection): void {
     }),
   );
 
-  connection.onShutdown(() => debouncer.cancelAll());
+  /** Re-analyses a document after new exact results and asks the client to redraw. */
+  function afterExactResults(uri: string): void {
+    cache.delete(uri);
+    if (pullDiagnostics) connection.languages.diagnostics.refresh().catch(() => undefined);
+    else publish(uri);
+    connection.languages.inlayHint.refresh().catch(() => undefined);
+    connection.sendRequest("workspace/codeLens/refresh").catch(() => undefined);
+  }
+
+  /**
+   * Runs the exact check of a document in the worker: the ring calibration of the chain
+   * predictions (when they apply) and the exact solve of the file's cluster. Work-done progress
+   * with a Cancel button; an edit of the document or a cancelled request stops it.
+   */
+  async function runExactCheck(uri: string, requestToken?: { isCancellationRequested: boolean; onCancellationRequested: (f: () => void) => unknown }): Promise<Record<string, unknown>> {
+    const runJob = runtime.runJob;
+    if (!runJob) return { ok: false, message: "Exact checks run in the desktop extension and the command line (spinwright solve), not in the browser." };
+    const doc = documents.get(uri);
+    const x = analysisOf(uri);
+    if (!doc || !x) return { ok: false, message: "No analysis for this document." };
+    const errors = x.a.diagnostics.filter((d) => d.severity === "error").length;
+    if (errors > 0 || !x.a.model) return { ok: false, message: `Fix the ${errors} error(s) first.` };
+    const sites = service.clusterSiteCount(x.a);
+    if (sites !== null && sites > settings.exactCheckMaxSites)
+      return { ok: false, message: `${sites} sites exceed spinwright.exactCheck.maxSites = ${settings.exactCheckMaxSites}.` };
+    running.get(uri)?.abort();
+    const controller = new AbortController();
+    running.set(uri, controller);
+    requestToken?.onCancellationRequested(() => controller.abort());
+    const version = doc.version;
+    const progress = await connection.window.createWorkDoneProgress().catch(() => null);
+    progress?.begin("Spinwright exact check", 0, "starting", true);
+    progress?.token.onCancellationRequested(() => controller.abort());
+    const report = (base: number, span: number) => (f: number, stage: string) => progress?.report(Math.round(100 * (base + span * f)), stage);
+    try {
+      const couplings = x.a.physics?.predictions.couplings ?? null;
+      let calibration: ExactCalibration | null = null;
+      if (couplings) {
+        const ring = Math.min(16, Math.max(8, 2 * Math.floor(Math.min(settings.exactCheckMaxSites, 16) / 2)));
+        calibration = calibrations.get(couplings.key) ?? (await runJob({ kind: "calibrate", couplings, sites: ring }, { signal: controller.signal, onProgress: report(0, 0.5) }));
+        calibrations.set(couplings.key, calibration);
+      }
+      const built = buildFiniteCluster(x.a.model);
+      let solved: ExactResult | null = null;
+      if (built.ok) {
+        const sym = x.a.physics?.symmetry;
+        const axis = sym?.full === "u1" && sym.fullAxis ? sym.fullAxis : sym?.full === "su2" ? ([0, 0, 1] as const) : undefined;
+        const L = built.value.cluster.translationPeriods?.[0];
+        solved = await runJob(
+          {
+            kind: "solve",
+            cluster: built.value.cluster,
+            options: { ...(axis ? { conservedAxis: axis } : {}), correlators: { q: L ? [0, (2 * Math.PI) / L, (4 * Math.PI) / L] : [0], components: axis ? ["-+", "current-"] : ["-+"] } },
+          },
+          { signal: controller.signal, onProgress: report(couplings ? 0.5 : 0, couplings ? 0.5 : 1) },
+        );
+        solves.set(uri, { version, result: solved });
+      }
+      afterExactResults(uri);
+      const l = solved?.larmor;
+      const message = solved
+        ? `Exact check on ${solved.sites} sites: ${l ? (l.singlePole ? "the q = 0 line is a single pole at the Zeeman energy" : `the q = 0 response is not a single line (mean offset ${Number((l.offsetFromZeemanMeV ?? 0).toPrecision(3))} meV, width ${Number((l.widthMeV ?? 0).toPrecision(3))} meV)`) : "no uniform field"}; splitting from the spin current ${solved.splittingMeV.fromCurrent === null ? "n/a" : `${Number(solved.splittingMeV.fromCurrent.toPrecision(4))} meV`}; ${solved.seconds.toFixed(2)} s.`
+        : "The exact calibration of the chain predictions is done.";
+      return { ok: true, message, sites: solved?.sites ?? null, larmor: solved?.larmor ?? null, splittingMeV: solved?.splittingMeV ?? null, calibrated: calibration !== null };
+    } catch (error) {
+      const cancelled = controller.signal.aborted || (error as Error).name === "CancelledError";
+      return { ok: false, cancelled, message: cancelled ? "Exact check cancelled." : `Exact check failed: ${(error as Error).message}` };
+    } finally {
+      progress?.done();
+      if (running.get(uri) === controller) running.delete(uri);
+    }
+  }
+
+  connection.onRequest(
+    EXACT_CHECK_REQUEST,
+    guard("exact check", { ok: false, message: "internal error" }, (p: { uri?: string }, token?: unknown) =>
+      typeof p?.uri === "string" ? runExactCheck(p.uri, token as Parameters<typeof runExactCheck>[1]) : { ok: false, message: "no uri" },
+    ),
+  );
+
+  connection.onRequest(
+    "spinwright/exportCluster",
+    guard("export cluster", null, (p: { uri?: string }) => {
+      const x = typeof p?.uri === "string" ? analysisOf(p.uri) : null;
+      if (!x?.a.model) return { error: "no model in this file" };
+      if (x.a.diagnostics.some((d) => d.severity === "error")) return { error: "fix the errors before exporting the cluster" };
+      const e = exportCluster(x.a.model);
+      return e.ok ? { json: JSON.stringify(e.json, null, 2) } : { error: e.reason };
+    }),
+  );
+
+  connection.onRequest(
+    PLOT_REQUEST,
+    guard("plot", null, (p: { uri?: string }) => {
+      const x = typeof p?.uri === "string" ? analysisOf(p.uri) : null;
+      if (!x || typeof p.uri !== "string") return null;
+      const solved = solves.get(p.uri);
+      const c = x.a.physics?.predictions.couplings;
+      const poles = solved && solved.version === x.entry.version ? polesForPlot(solved.result) : [];
+      return { svg: renderPlotSvg(x.a, { poles, exact: c ? (calibrations.get(c.key) ?? null) : null }) };
+    }),
+  );
+
+  connection.onShutdown(() => {
+    debouncer.cancelAll();
+    for (const c of running.values()) c.abort();
+  });
 
   documents.listen(connection);
   connection.listen();

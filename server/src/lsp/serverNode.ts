@@ -2,6 +2,7 @@
 // --stdio`, or `--node-ipc` from VS Code. Nothing but protocol frames may reach stdout, so
 // stray errors go to stderr. LSP layer.
 import { createConnection, ProposedFeatures } from "vscode-languageserver/node";
+import { runJobInWorker } from "../host/runJob";
 import { startServer } from "./server";
 
 process.on("uncaughtException", (error) => {
@@ -11,4 +12,5 @@ process.on("unhandledRejection", (reason) => {
   process.stderr.write(`spinwright server: unhandled rejection: ${reason instanceof Error ? (reason.stack ?? reason.message) : String(reason)}\n`);
 });
 
-startServer(createConnection(ProposedFeatures.all));
+// Exact checks run in a worker thread next to this bundle (dist/jobWorker.js).
+startServer(createConnection(ProposedFeatures.all), { runJob: (job, options) => runJobInWorker(job, options) });

@@ -12,6 +12,8 @@ import { statementExprs, walkExpr } from "../syntax/ast";
 import { isKeyword } from "../syntax/lexer";
 import { energyText, firstModel, formatNumber, spanContains, statementAt, symbolAt, tokenAt, tokenSpan } from "./common";
 import { physicsItems } from "./physicsView";
+import { predictionLines } from "./predictionsView";
+import { describeClass, kindText } from "../analysis/symmetryCheck";
 import { energyConversions, parameterValueText, zeemanLines, zeemanText } from "./quantities";
 import { CLAUSE_WORDS, CONVENTIONS, KIND_SIGNATURES, STATEMENT_WORDS, SYMMETRY_CLAIMS, unitDescription } from "./vocabulary";
 
@@ -110,6 +112,8 @@ function fieldHover(a: DocumentAnalysis, model: SpinModel): string | null {
   }
   const resonance = a.physics?.resonance;
   if (resonance?.hasField && resonance.reason) out.push(`q = 0 resonance: ${resonance.reason}`);
+  const predictions = a.physics?.predictions;
+  if (predictions?.applicable) out.push(`**Predicted near q = 0**\n\n${predictionLines(predictions, { sweep: false }).map((l) => `- ${l}`).join("\n")}`);
   out.push("_μB and conversions: CODATA 2018 (Tiesinga et al., Rev. Mod. Phys. 2021)._");
   return out.join("\n\n");
 }
@@ -191,14 +195,18 @@ function statementHover(a: DocumentAnalysis, s: Statement, offset: number, span:
     }
     case "expect": {
       const doc = SYMMETRY_CLAIMS[s.claim.name];
-      return doc && spanContains(s.claim.span, offset) ? { span: s.claim.span, markdown: `**${s.claim.name}**: ${doc}` } : null;
+      const sym = a.physics?.symmetry;
+      const computed = sym ? `\n\nComputed: without the field ${describeClass(sym.h0, sym.axis)}; with the field ${describeClass(sym.full, sym.fullAxis)}.${sym.breaking.length ? ` Broken by: ${sym.breaking.map((b) => kindText(b.kind)).join("; ")}.` : ""}` : "";
+      return doc && spanContains(s.claim.span, offset) ? { span: s.claim.span, markdown: `**${s.claim.name}**: ${doc}${computed}` } : null;
     }
     case "probe": {
       const e = model?.probe?.energyMeV;
       if (e === undefined) return null;
       const resonantT = a.physics?.resonance?.probe?.resonanceFieldT;
       const resonance = typeof resonantT === "number" ? `\n\nResonant (h ν = g μB B) at B = ${formatNumber(resonantT)} T.` : "";
-      return { span, markdown: `**probe** ${energyConversions(e, null).join(" = ")} = ${energyText(e, "cm^-1")}${resonance}\n\n${CODATA_NOTE}` };
+      const pred = a.physics?.predictions;
+      const branches = pred?.applicable ? `\n\n${predictionLines(pred, { sweep: false }).map((l) => `- ${l}`).join("\n")}` : "";
+      return { span, markdown: `**probe** ${energyConversions(e, null).join(" = ")} = ${energyText(e, "cm^-1")}${resonance}${branches}\n\n${CODATA_NOTE}` };
     }
     case "cluster": {
       const c = model?.cluster;

@@ -4,6 +4,7 @@
 // chaining and keys this file does not know yet are shown from their text fields. Service layer.
 import type { DocumentAnalysis } from "../analysis/analyze";
 import type { Vec3 } from "../physics/types";
+import { predictionLines } from "./predictionsView";
 import { energyText, formatNumber } from "./common";
 
 /** One titled piece of the physics summary. */
@@ -12,7 +13,7 @@ export interface PhysicsItem {
   readonly lines: readonly string[];
 }
 
-const KNOWN = new Set(["symmetry", "couplings", "frustration", "family", "resonance"]);
+const KNOWN = new Set(["symmetry", "couplings", "frustration", "family", "resonance", "predictions"]);
 const TEXT_FIELDS = ["summary", "text", "message", "description", "reason", "consequence"];
 
 function axisText(n: Vec3 | null | undefined): string {
@@ -73,6 +74,7 @@ export function physicsItems(a: DocumentAnalysis): PhysicsItem[] {
     if (res.dmDoublet) lines.push(`DM doublet: tan θ = D/J = ${formatNumber(res.dmDoublet.dMeV / res.dmDoublet.jMeV, 4)}`);
     if (lines.length > 0) items.push({ title: "Resonance", lines });
   }
+  if (p.predictions) items.push({ title: "Predictions in the field", lines: predictionLines(p.predictions, { sweep: false }) });
   for (const [key, value] of Object.entries(p as unknown as Record<string, unknown>)) {
     if (KNOWN.has(key)) continue;
     const lines = genericLines(value);

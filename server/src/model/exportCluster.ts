@@ -1,8 +1,8 @@
 // The neutral JSON description of the finite cluster (`spinwright export`), documented by
 // docs/cluster.schema.json: sites, bonds with 3x3 matrices, single-ion tensors, field, units.
-// CLI layer over the model layer.
-import { buildFiniteCluster } from "../model/cluster";
-import type { SpinModel } from "../model/model";
+// Model layer (used by the CLI and the language server).
+import { buildFiniteCluster } from "./cluster";
+import type { SpinModel } from "./model";
 
 export const EXPORT_FORMAT_VERSION = 1;
 
