@@ -52,10 +52,16 @@ export function summarizeCouplings(model: SpinModel): CouplingSummary[] {
 }
 
 /** Neighbour shell (1 = nearest) that a bond length belongs to on the model's lattice. */
+const shellDistances = new WeakMap<object, number[]>();
+
 export function shellOf(model: SpinModel, distance: number): number | null {
   const L = model.lattice;
   if (!L) return null;
-  const shells = neighbourShells(L.vectors, L.sites.map((s) => s.position), 4).distances;
+  let shells = shellDistances.get(L);
+  if (!shells) {
+    shells = neighbourShells(L.vectors, L.sites.map((s) => s.position), 4).distances;
+    shellDistances.set(L, shells);
+  }
   const k = shells.findIndex((d) => Math.abs(d - distance) < 1e-6 * Math.max(1, d));
   return k < 0 ? null : k + 1;
 }

@@ -20,11 +20,33 @@ export interface FrustrationGroup {
 
 const CYCLE_NAMES: Record<number, string> = { 3: "triangle", 4: "square plaquette", 5: "pentagon", 6: "hexagon" };
 
+const cache = new Map<string, FrustrationGroup[]>();
+
+/** The groups depend only on the geometry, the bonds and the signs: cached on that fingerprint. */
 export function analyzeFrustration(model: SpinModel): FrustrationGroup[] {
   const L = model.lattice;
   if (!L || model.exchanges.length === 0) return [];
+  const key = JSON.stringify([
+    L.vectors,
+    L.sites.map((s) => s.position),
+    model.exchanges.map((t) => [termLabel(t), Math.sign(decomposeExchange(t.matrixMeV).isotropic), t.bonds.map((b) => [b.from, b.to, b.offset])]),
+  ]);
+  const hit = cache.get(key);
+  if (hit) return hit;
+  const groups = computeFrustration(model);
+  if (cache.size > 32) cache.delete(cache.keys().next().value as string);
+  cache.set(key, groups);
+  return groups;
+}
+
+function computeFrustration(model: SpinModel): FrustrationGroup[] {
+  const L = model.lattice;
+  if (!L) return [];
   // A cluster large enough that lattice cycles are not confused with wrap-around ones.
   const longest = Math.max(...model.exchanges.flatMap((t) => t.bonds.map((b) => Math.max(...b.offset.map(Math.abs), 0))), 1);
+  // Shortest cycles are local; bonds spanning many cells would need a huge cluster for little
+  // gain, so such models are left out (the report then lists no cycles).
+  if (longest > 4) return [];
   const side = Math.max(L.dimension === 1 ? 12 : L.dimension === 2 ? 6 : 4, 4 * longest + 1);
   const built = buildFiniteCluster(model, new Array<number>(L.dimension).fill(side));
   if (!built.ok || built.value.cluster.spins.length > 20000) return [];

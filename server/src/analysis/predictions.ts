@@ -17,6 +17,8 @@ import type { PhysicsSummary } from "./physics";
 export const FIELD_THEORY_MAX_M = 0.05;
 export const TWO_BRANCH_MAX_M = 0.25;
 export const NEAR_SATURATION_MIN_M = 0.4;
+/** Longest bond (in cells) for which the chain predictions are computed. */
+export const MAX_CHAIN_RANGE = 6;
 
 /** Exact finite-ring numbers for one coupling set (from the exact solver), in meV. */
 export interface ExactCalibration {
@@ -102,13 +104,20 @@ export interface Predictions {
 
 const saturationCache = new Map<string, ReturnType<typeof saturationFieldWithBoundStates>>();
 
-function cached<T>(cache: Map<string, T>, key: string, compute: () => T): T {
+function cached<T>(cache: Map<string, T>, key: string, compute: () => T, limit = 64): T {
   const hit = cache.get(key);
   if (hit !== undefined) return hit;
   const value = compute();
-  if (cache.size > 64) cache.delete(cache.keys().next().value as string);
+  if (cache.size > limit) cache.delete(cache.keys().next().value as string);
   cache.set(key, value);
   return value;
+}
+
+const magnetizationCache = new Map<string, ReturnType<typeof xxzMagnetization>>();
+
+/** Bethe-ansatz m(h), memoized: the sweep and the plot ask for the same points on every keystroke. */
+function betheMagnetization(delta: number, h: number): ReturnType<typeof xxzMagnetization> {
+  return cached(magnetizationCache, `${delta}|${h}`, () => xxzMagnetization(delta, h), 4096);
 }
 
 const none = <T>(reason: string, method = "none"): Valued<T> => ({ value: null, method, valid: false, reason });
@@ -130,6 +139,10 @@ export function chainCouplings(model: SpinModel, axis: Vec3): { ok: true; value:
       const k = c.offset[0] ?? 0;
       byOffset.set(k, addMat3(byOffset.get(k) ?? zero, t.matrixMeV));
     }
+  // The magnon problems grow with the bond range; beyond a few neighbours they would cost seconds
+  // on every keystroke for models the formulas here do not cover anyway.
+  const longest = Math.max(0, ...byOffset.keys());
+  if (longest > MAX_CHAIN_RANGE) return { ok: false, reason: `couplings beyond ${MAX_CHAIN_RANGE} neighbours are not covered by the chain predictions` };
   const nn = outer3(axis, axis);
   const bonds: { offset: number; jPerp: number; jZ: number }[] = [];
   let dm = 0;
@@ -253,7 +266,7 @@ export function predict(model: SpinModel, physics: Omit<PhysicsSummary, "predict
   let magnetization: Valued<number>;
   if (h >= sat.hSat * J) magnetization = { value: 0.5, method: "saturated: the field exceeds the saturation field", valid: true, reason: null };
   else if (xxzBethe) {
-    const r = xxzMagnetization(c.delta, hJ);
+    const r = betheMagnetization(c.delta, hJ);
     magnetization = { value: r.m, method: `Bethe ansatz, dressed-energy equation (Griffiths 1964), ${r.method}`, valid: r.converged, reason: r.converged ? null : "quadrature not converged" };
   } else if (exact) magnetization = { value: ringMagnetization(exact, h), method: `exact diagonalization, ${exact.sites}-site ring, level crossings E(Sz+1) - E(Sz), line through the step midpoints`, valid: true, reason: null };
   else magnetization = none("no closed form for this chain: run the exact check (--exact in the CLI, the exact-check lens in the editor) for m(h)", "unavailable");
@@ -369,7 +382,7 @@ export function predict(model: SpinModel, physics: Omit<PhysicsSummary, "predict
         mm = 0.5;
         how = "saturated";
       } else if (xxzBethe) {
-        mm = xxzMagnetization(c.delta, hz / J).m;
+        mm = betheMagnetization(c.delta, hz / J).m;
         how = "Bethe ansatz";
       } else if (exact) {
         mm = ringMagnetization(exact, hz);
@@ -436,7 +449,7 @@ export function magnetizationCurve(p: Predictions, exact: ExactCalibration | nul
   const out: { zeemanMeV: number; m: number }[] = [];
   for (let i = 0; i <= points; i++) {
     const h = (1.1 * hs * i) / points;
-    const m = h >= hs ? 0.5 : bethe ? xxzMagnetization(c.delta, h / c.jMeV).m : ringMagnetization(exact as ExactCalibration, h);
+    const m = h >= hs ? 0.5 : bethe ? betheMagnetization(c.delta, h / c.jMeV).m : ringMagnetization(exact as ExactCalibration, h);
     out.push({ zeemanMeV: h, m });
   }
   return out;

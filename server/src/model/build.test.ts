@@ -118,3 +118,20 @@ describe("finite clusters", () => {
     expect(c.value.cluster.bonds.length).toBe(54);
   });
 });
+
+describe("expression precedence and associativity (arithmetic conventions)", () => {
+  const value = (expr: string) => model(`lattice chain\n let x = ${expr}`).parameters.get("x")?.value?.data[0];
+  it.each([
+    ["-2 ^ 2", -4],
+    ["2 ^ -1", 0.5],
+    ["2 * 3 ^ 2", 18],
+    ["1 - 2 - 3", -4],
+    ["2 ^ 3 ^ 2", 512],
+    ["12 / 2 / 3", 2],
+    ["-(1 + 2) * 2", -6],
+    ["2 + 3 * 4 ^ 2", 50],
+    ["- -3", 3],
+  ])("%s = %d", (expr, expected) => {
+    expect(value(expr)).toBeCloseTo(expected, 12);
+  });
+});

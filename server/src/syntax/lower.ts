@@ -74,43 +74,91 @@ export function lowerExpr(n: CstNode | undefined): Expr | undefined {
   if (!span) return undefined;
   switch (n.name) {
     case "expr":
-    case "multiplicative": {
-      const operandRule = n.name === "expr" ? "multiplicative" : "unary";
-      const operands = nodes(c, operandRule).map((x) => lowerExpr(x));
-      const ops = byOffset(
-        n.name === "expr" ? [...tokens(c, "Plus"), ...tokens(c, "Minus")] : [...tokens(c, "Star"), ...tokens(c, "Slash")],
-      );
-      let acc = operands[0];
-      for (let i = 1; i < operands.length; i++) {
-        const right = operands[i];
-        const op = ops[i - 1]?.image as "+" | "-" | "*" | "/" | undefined;
-        if (!acc || !right || !op) return acc ? { kind: "missing", span } : undefined;
-        acc = { kind: "binary", span: { start: acc.span.start, end: right.span.end }, op, left: acc, right };
-      }
-      return acc;
-    }
-    case "unary": {
-      const sign = tokens(c, "Minus")[0] ?? tokens(c, "Plus")[0];
-      if (sign) {
-        const operand = lowerExpr(nodes(c, "unary")[0]);
-        if (!operand) return { kind: "missing", span };
-        return { kind: "unary", span, op: sign.image as "-" | "+", operand };
-      }
-      return lowerExpr(nodes(c, "power")[0]);
-    }
-    case "power": {
-      const base = lowerExpr(nodes(c, "primary")[0]);
-      const exponentNode = nodes(c, "unary")[0];
-      if (!exponentNode) return base;
-      const exponent = lowerExpr(exponentNode);
-      if (!base || !exponent) return { kind: "missing", span };
-      return { kind: "binary", span, op: "^", left: base, right: exponent };
+      return lowerOperatorChain(c, span);
+    case "operand": {
+      const inner = lowerExpr(nodes(c, "primary")[0]);
+      if (!inner) return undefined;
+      return applySigns(byOffset([...tokens(c, "Minus"), ...tokens(c, "Plus")]), inner, span);
     }
     case "primary":
       return lowerPrimary(c, span);
     default:
       return { kind: "missing", span };
   }
+}
+
+interface OperandPiece {
+  signs: IToken[];
+  body: Expr;
+  span: Span;
+}
+
+function applySigns(signs: readonly IToken[], e: Expr, span: Span): Expr {
+  let out = e;
+  for (let i = signs.length - 1; i >= 0; i--) {
+    const t = signs[i] as IToken;
+    out = { kind: "unary", span: { start: t.startOffset, end: out.span.end > span.end ? out.span.end : span.end }, op: t.image as "-" | "+", operand: out };
+  }
+  return out;
+}
+
+/**
+ * Builds the tree of `operand (op operand)*` by precedence: ^ binds tightest and to the right, and
+ * a sign in front of an operand applies to the whole power (-2^2 = -(2^2)); then * and / to the
+ * left; then + and - to the left.
+ */
+function lowerOperatorChain(c: Children, span: Span): Expr | undefined {
+  const operandNodes = nodes(c, "operand");
+  const pieces: (OperandPiece | null)[] = operandNodes.map((o) => {
+    const oc = o.children as Children;
+    const body = lowerExpr(nodes(oc, "primary")[0]);
+    const ospan = nodeSpan(o);
+    return body && ospan ? { signs: byOffset([...tokens(oc, "Minus"), ...tokens(oc, "Plus")]), body, span: ospan } : null;
+  });
+  const ops = byOffset([...tokens(c, "Plus"), ...tokens(c, "Minus"), ...tokens(c, "Star"), ...tokens(c, "Slash"), ...tokens(c, "Caret")]).map((t) => t.image);
+  if (pieces.length === 0 || pieces.some((p) => p === null) || ops.length !== pieces.length - 1) {
+    const first = pieces[0];
+    if (pieces.length === 1 && first) return applySigns(first.signs, first.body, span);
+    return pieces.length > 0 ? { kind: "missing", span } : undefined;
+  }
+  const ps = pieces as OperandPiece[];
+  // Power chains (right-associative), each with the signs of its first operand outside.
+  const terms: Expr[] = [];
+  const termOps: string[] = [];
+  let i = 0;
+  while (i < ps.length) {
+    let j = i;
+    while (j < ops.length && ops[j] === "^") j++;
+    // ps[i..j] joined by ^, right to left; the signs of later operands stay on their operands.
+    let acc: Expr = j > i ? applySigns((ps[j] as OperandPiece).signs, (ps[j] as OperandPiece).body, (ps[j] as OperandPiece).span) : (ps[i] as OperandPiece).body;
+    for (let k = j - 1; k >= i; k--) {
+      const p = ps[k] as OperandPiece;
+      const base = k === i ? p.body : applySigns(p.signs, p.body, p.span);
+      acc = { kind: "binary", span: { start: base.span.start, end: acc.span.end }, op: "^", left: base, right: acc };
+    }
+    const head = ps[i] as OperandPiece;
+    terms.push(applySigns(head.signs, acc, { start: head.span.start, end: acc.span.end }));
+    if (j < ops.length) termOps.push(ops[j] as string);
+    i = j + 1;
+  }
+  const fold = (items: Expr[], opsIn: string[], level: readonly string[]): { items: Expr[]; ops: string[] } => {
+    const outItems: Expr[] = [items[0] as Expr];
+    const outOps: string[] = [];
+    opsIn.forEach((op, k) => {
+      const right = items[k + 1] as Expr;
+      if (level.includes(op)) {
+        const left = outItems.pop() as Expr;
+        outItems.push({ kind: "binary", span: { start: left.span.start, end: right.span.end }, op: op as "*", left, right });
+      } else {
+        outOps.push(op);
+        outItems.push(right);
+      }
+    });
+    return { items: outItems, ops: outOps };
+  };
+  const products = fold(terms, termOps, ["*", "/"]);
+  const sums = fold(products.items, products.ops, ["+", "-"]);
+  return sums.items[0];
 }
 
 function lowerPrimary(c: Children, span: Span): Expr {

@@ -284,41 +284,28 @@ class SpwParser extends CstParser {
     });
   });
 
-  // Expressions: + - (left), * / (left), unary sign, ^ (right), primaries.
+  // Expressions as a flat alternation of operands and binary operators; precedence (^ right,
+  // then * /, then + -, with a leading sign binding looser than ^) is applied in lower.ts. One
+  // CST level per operand instead of one per precedence level keeps parsing fast.
   public expr = this.RULE("expr", () => {
-    this.SUBRULE(this.multiplicative);
+    this.SUBRULE(this.operand);
     this.MANY(() => {
-      this.OR([{ ALT: () => this.CONSUME(Plus) }, { ALT: () => this.CONSUME(Minus) }]);
-      this.SUBRULE2(this.multiplicative);
+      this.OR([
+        { ALT: () => this.CONSUME(Plus) },
+        { ALT: () => this.CONSUME(Minus) },
+        { ALT: () => this.CONSUME(Star) },
+        { ALT: () => this.CONSUME(Slash) },
+        { ALT: () => this.CONSUME(Caret) },
+      ]);
+      this.SUBRULE2(this.operand);
     });
   });
 
-  private multiplicative = this.RULE("multiplicative", () => {
-    this.SUBRULE(this.unary);
+  private operand = this.RULE("operand", () => {
     this.MANY(() => {
-      this.OR([{ ALT: () => this.CONSUME(Star) }, { ALT: () => this.CONSUME(Slash) }]);
-      this.SUBRULE2(this.unary);
+      this.OR([{ ALT: () => this.CONSUME(Minus) }, { ALT: () => this.CONSUME(Plus) }]);
     });
-  });
-
-  private unary = this.RULE("unary", () => {
-    this.OR([
-      {
-        ALT: () => {
-          this.OR2([{ ALT: () => this.CONSUME(Minus) }, { ALT: () => this.CONSUME(Plus) }]);
-          this.SUBRULE(this.unary);
-        },
-      },
-      { ALT: () => this.SUBRULE(this.power) },
-    ]);
-  });
-
-  private power = this.RULE("power", () => {
     this.SUBRULE(this.primary);
-    this.OPTION(() => {
-      this.CONSUME(Caret);
-      this.SUBRULE(this.unary);
-    });
   });
 
   private primary = this.RULE("primary", () => {
