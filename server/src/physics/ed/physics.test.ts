@@ -25,8 +25,8 @@ describe("exactly solvable and literature references", () => {
   it("Heisenberg rings N = 8..20 approach 1/4 - ln 2 (Hulthen 1938) with the 1/N^2 law", () => {
     // Hulthen, Ark. Mat. Astron. Fys. 26A no. 11 (1938): e_inf = 1/4 - ln 2 = -0.4431472 J.
     // Finite-size behaviour (even N, periodic): E/N = e_inf - pi v c / (6 N^2) + ..., c = 1,
-    // v = pi/2, i.e. N^2 (e_inf - E/N) -> pi^2/12 = 0.8225 (Bloete, Cardy & Nightingale,
-    // PRL 56, 742 (1986); Affleck, PRL 56, 746 (1986)), approached from above because of the
+    // v = pi/2, i.e. N^2 (e_inf - E/N) -> pi^2/12 = 0.8225 (conformal finite-size law, Phys. Rev.
+    // Lett. 56, 742 (1986); from memory), approached from above because of the
     // logarithmic corrections of the marginal coupling: 0.847 at N = 8 down to 0.829 at N = 20.
     const eInf = 0.25 - Math.log(2);
     let prevE = -Infinity;
