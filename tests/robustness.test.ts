@@ -4,23 +4,14 @@ import { readdirSync, readFileSync } from "node:fs";
 import { join } from "node:path";
 import { describe, expect, it } from "vitest";
 import { analyzeDocument } from "../server/src/analysis/analyze";
+// A deterministic generator, so that failures can be replayed.
+import { rng } from "../server/src/physics/ed/lanczos";
 
 const samplesDir = join(__dirname, "..", "samples");
 const samples = readdirSync(samplesDir)
   .filter((f) => f.endsWith(".spw"))
   .map((f) => readFileSync(join(samplesDir, f), "utf8"));
 
-/** A small deterministic generator (mulberry32), so that failures can be replayed. */
-function rng(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
 
 const EXTRA = ["{", "}", "(", ")", "->", "=", ",", "^", "-", "1/0", "1e999", "K", "T", "spin", "let", "shell", "exchange", "#", '"', "[[", "]]", "all", "0"];
 

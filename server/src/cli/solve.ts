@@ -2,11 +2,10 @@
 // progress and Ctrl-C, and `--exact` calibration of the chain predictions. CLI layer.
 import type { DocumentAnalysis } from "../analysis/analyze";
 import type { ExactCalibration } from "../analysis/predictions";
-import { buildFiniteCluster } from "../model/cluster";
 import { MEV_PER_GHZ } from "../model/units";
-import type { ExactOptions, ExactResult } from "../physics/ed/solve";
-import type { Vec3 } from "../physics/types";
+import type { ExactResult } from "../physics/ed/solve";
 import { runJobInWorker } from "../host/runJob";
+import { clusterSolveJob } from "../host/jobs";
 import { progressReporter } from "./progress";
 
 export class CliFailure extends Error {}
@@ -28,15 +27,6 @@ async function withProgress<T>(label: string, run: (signal: AbortSignal, onProgr
   }
 }
 
-/** The conserved axis the solver may use: the axis of the full Hamiltonian's U(1), if any. */
-export function conservedAxisFor(a: DocumentAnalysis): Vec3 | undefined {
-  const s = a.physics?.symmetry;
-  if (!s) return undefined;
-  if (s.full === "u1" && s.fullAxis) return s.fullAxis;
-  if (s.full === "su2") return [0, 0, 1];
-  return undefined;
-}
-
 export async function runSolve(a: DocumentAnalysis, sites: number | undefined): Promise<ExactResult> {
   const m = a.model;
   if (!m) throw new CliFailure("no model to solve");
@@ -48,19 +38,10 @@ export async function runSolve(a: DocumentAnalysis, sites: number | undefined): 
     if (sites % basis !== 0) throw new CliFailure(`--sites must be a multiple of the ${basis} sites per cell`);
     cells = [sites / basis];
   }
-  const built = buildFiniteCluster(m, cells);
-  if (!built.ok) throw new CliFailure(built.reason);
-  const n = built.value.cluster.spins.length;
-  const axis = conservedAxisFor(a);
-  const L = built.value.cluster.translationPeriods?.[0];
-  const q = L ? [0, (2 * Math.PI) / L, (4 * Math.PI) / L] : [0];
-  const options: ExactOptions = {
-    ...(axis ? { conservedAxis: axis } : {}),
-    correlators: { q, components: axis ? ["-+", "current-"] : ["-+"] },
-  };
-  return withProgress(`exact check, ${n} sites`, (signal, onProgress) =>
-    runJobInWorker({ kind: "solve", cluster: built.value.cluster, options }, { signal, onProgress }),
-  );
+  const prepared = clusterSolveJob(a, cells);
+  if (!prepared.ok) throw new CliFailure(prepared.reason);
+  const n = prepared.job.cluster.spins.length;
+  return withProgress(`exact check, ${n} sites`, (signal, onProgress) => runJobInWorker(prepared.job, { signal, onProgress }));
 }
 
 export async function runCalibration(a: DocumentAnalysis, sites: number): Promise<ExactCalibration | null> {

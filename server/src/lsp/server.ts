@@ -22,8 +22,7 @@ import {
 import { TextDocument } from "vscode-languageserver-textdocument";
 import { analyzeDocument, type DocumentAnalysis } from "../analysis/analyze";
 import type { ExactCalibration } from "../analysis/predictions";
-import type { HeavyJob, JobResult } from "../host/jobs";
-import { buildFiniteCluster } from "../model/cluster";
+import { clusterSolveJob, type HeavyJob, type JobResult } from "../host/jobs";
 import { exportCluster } from "../model/exportCluster";
 import type { ExactResult } from "../physics/ed/solve";
 import { renderPlotSvg, type PlotPole } from "../render/plot";
@@ -486,20 +485,10 @@ export function startServer(connection: Connection, runtime: ServerRuntime = {})
         calibration = calibrations.get(couplings.key) ?? (await runJob({ kind: "calibrate", couplings, sites: ring }, { signal: controller.signal, onProgress: report(0, 0.5) }));
         calibrations.set(couplings.key, calibration);
       }
-      const built = buildFiniteCluster(x.a.model);
+      const prepared = clusterSolveJob(x.a);
       let solved: ExactResult | null = null;
-      if (built.ok) {
-        const sym = x.a.physics?.symmetry;
-        const axis = sym?.full === "u1" && sym.fullAxis ? sym.fullAxis : sym?.full === "su2" ? ([0, 0, 1] as const) : undefined;
-        const L = built.value.cluster.translationPeriods?.[0];
-        solved = await runJob(
-          {
-            kind: "solve",
-            cluster: built.value.cluster,
-            options: { ...(axis ? { conservedAxis: axis } : {}), correlators: { q: L ? [0, (2 * Math.PI) / L, (4 * Math.PI) / L] : [0], components: axis ? ["-+", "current-"] : ["-+"] } },
-          },
-          { signal: controller.signal, onProgress: report(couplings ? 0.5 : 0, couplings ? 0.5 : 1) },
-        );
+      if (prepared.ok) {
+        solved = await runJob(prepared.job, { signal: controller.signal, onProgress: report(couplings ? 0.5 : 0, couplings ? 0.5 : 1) });
         solves.set(uri, { version, result: solved });
       }
       afterExactResults(uri);

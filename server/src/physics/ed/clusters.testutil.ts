@@ -1,16 +1,9 @@
 // Test-only cluster builders (rings and random clusters) for the exact-diagonalization tests.
 import type { Mat3, SpinCluster, Vec3 } from "../types";
+import { rng } from "./lanczos";
 
-export function mulberry(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+/** The engine's deterministic generator, under the name the tests use. */
+export const mulberry = rng;
 
 export function xxz(J: number, delta = 1): Mat3 {
   return [
