@@ -9,6 +9,7 @@ const entries = [
   ["server/src/physics/ed/worker.ts", "dist/edWorker.js"],
   ["server/src/host/jobWorker.ts", "dist/jobWorker.js"],
   ["bench/main.ts", "dist/bench.js"],
+  ["bench/jsonServer.ts", "dist/benchJsonServer.js"],
 ];
 
 for (const [entry, outfile] of entries) {
@@ -22,6 +23,8 @@ for (const [entry, outfile] of entries) {
     format: "cjs",
     sourcemap: true,
     logLevel: "warning",
+    // vscode-json-languageservice's UMD build requires its modules dynamically; take its ES build.
+    ...(entry.startsWith("bench/jsonServer") ? { mainFields: ["module", "main"] } : {}),
     banner: entry.endsWith("cli/main.ts") ? { js: "#!/usr/bin/env node" } : {},
   });
 }

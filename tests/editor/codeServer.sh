@@ -33,6 +33,9 @@ CS="$E2E/cs/node_modules/.bin/code-server"
 D="$E2E/run"
 rm -rf "$D" && mkdir -p "$D"
 export XDG_CONFIG_HOME="$D/xdg" XDG_DATA_HOME="$D/xdg"
+# A quiet workbench: no prompt about the parent git repository, no start page, no chat panel.
+mkdir -p "$D/data/User"
+printf '%s\n' '{"git.openRepositoryInParentFolders": "never", "workbench.startupEditor": "none", "chat.disableAIFeatures": true}' > "$D/data/User/settings.json"
 PATH="$N24/bin:$PATH" "$CS" --user-data-dir "$D/data" --extensions-dir "$D/ext" --install-extension "$VSIX" --force
 PATH="$N24/bin:$PATH" "$CS" --bind-addr 127.0.0.1:$PORT --auth none --disable-telemetry --disable-update-check --disable-workspace-trust \
   --disable-getting-started-override --user-data-dir "$D/data" --extensions-dir "$D/ext" "$WS" > "$D/server.log" 2>&1 &

@@ -50,7 +50,7 @@ try {
 
   // 2. Hover the field statement of the DM chain: the Zeeman energy.
   await open("dm-chain.spw");
-  const fieldWord = page.locator(".part.editor .monaco-editor .view-lines .view-line").filter({ hasText: "field 7 T" }).locator("span span").first();
+  const fieldWord = page.locator(".part.editor .monaco-editor .view-lines .view-line").filter({ hasText: "field 7 T" }).locator("span span").filter({ hasText: /^field$/ }).first();
   await fieldWord.waitFor({ timeout: 30000 });
   let hover = "";
   for (let attempt = 0; attempt < 30; attempt++) {

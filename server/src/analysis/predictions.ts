@@ -364,7 +364,7 @@ export function predict(model: SpinModel, physics: Omit<PhysicsSummary, "predict
         naiveLowerMeV: d.naive.lower * J,
         naiveUpperMeV: d.naive.upper * J,
         naiveApplies: d.naiveApplies,
-        method: `two branches of the symmetric chain at q = theta, tan theta = D/J (${method})`,
+        method: `two branches of the symmetric chain at q = theta, tan theta = D/J, ${splitting === null ? "with Delta = 0" : `Delta from ${method}`}`,
       };
     }
   }
