@@ -1,10 +1,11 @@
 // A JSON document of a given number of lines holding the same kind of content as the generated
 // .spw benchmark model (named couplings with units, bonds, g, field), and a JSON Schema for it
 // with descriptions (so that validation and hover have real work). Invented benchmark data.
+import type { JSONSchema } from "vscode-json-languageservice";
 
 export const BENCH_JSON_SCHEMA_URI = "spinwright-bench://model.schema.json";
 
-export const BENCH_JSON_SCHEMA = {
+export const BENCH_JSON_SCHEMA: JSONSchema = {
   $schema: "http://json-schema.org/draft-07/schema#",
   type: "object",
   required: ["model", "spin", "couplings", "bonds"],
@@ -41,7 +42,7 @@ export const BENCH_JSON_SCHEMA = {
     g: { type: "number", description: "Isotropic g-factor." },
     field: { type: "object", properties: { tesla: { type: "number", description: "Field strength in tesla." } }, description: "Applied field." },
   },
-} as const;
+};
 
 /** A pretty-printed JSON model of about `lines` lines (5 lines per coupling). */
 export function generatedJson(lines: number): string {

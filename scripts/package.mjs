@@ -10,7 +10,7 @@ const run = (cmd, args) => execFileSync(cmd, args, { stdio: "inherit", cwd: root
 
 run(process.execPath, ["scripts/build.mjs"]);
 run(process.execPath, ["scripts/buildEditor.mjs", "--production"]);
-for (const f of ["dist/server.js", "dist/extension.js", "dist/browserExtension.js", "dist/serverWeb.js"])
+for (const f of ["dist/server.js", "dist/extension.js", "dist/browserExtension.js", "dist/serverWeb.js", "dist/jobWorkerWeb.js"])
   if (!existsSync(join(root, f))) throw new Error(`${f} is missing after the build`);
 
 const manifest = JSON.parse(readFileSync(join(root, "package.json"), "utf8"));

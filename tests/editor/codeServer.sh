@@ -1,7 +1,8 @@
 #!/usr/bin/env bash
 # Real VS Code (code-server, Code OSS in the browser) driven by Playwright in Debian's Chromium:
 # installs the packaged spinwright.vsix, opens samples, checks the Problems count, reads the
-# Zeeman energy from a hover and finds the plot in the preview. Screenshots go to
+# Zeeman energy from a hover and finds the plot in the preview; then runs the browser build's
+# server (Web Worker, exact check in a nested worker) in the same Chromium. Screenshots go to
 # .e2e/screenshots (CI prints the folder). Installs what it needs from npm and Debian.
 # Usage: bash tests/editor/codeServer.sh   (after `npm run package`)
 set -euo pipefail
@@ -44,4 +45,6 @@ trap 'kill $CSPID 2>/dev/null || true' EXIT
 for _ in $(seq 1 120); do curl -sf -o /dev/null "http://127.0.0.1:$PORT/healthz" && break; sleep 0.5; done
 t "code-server up"
 PW_FROM="$E2E/pw/package.json" node tests/editor/vscodeE2e.mjs "http://127.0.0.1:$PORT/?folder=$WS" "$E2E/screenshots"
+# The browser build on its own: the Web Worker server and its nested job worker in Chromium.
+PW_FROM="$E2E/pw/package.json" node tests/editor/webWorkerBrowser.mjs "$E2E/screenshots"
 t "passed; screenshots in $E2E/screenshots"

@@ -387,7 +387,8 @@ export function startServer(connection: Connection, runtime: ServerRuntime = {})
   connection.onCodeLens(
     guard("code lens", [], (p): LspCodeLens[] => {
       const x = analysisOf(p.textDocument.uri);
-      if (!x) return [];
+      // The lens runs the exact check: offered only where a worker can run it.
+      if (!x || !runtime.runJob) return [];
       return service.codeLenses(x.a, p.textDocument.uri, settings).map((l) => ({
         range: toRange(x.a, l.span),
         command: { title: l.title, command: l.command, arguments: [...l.arguments] },
@@ -459,7 +460,7 @@ export function startServer(connection: Connection, runtime: ServerRuntime = {})
    */
   async function runExactCheck(uri: string, requestToken?: { isCancellationRequested: boolean; onCancellationRequested: (f: () => void) => unknown }): Promise<Record<string, unknown>> {
     const runJob = runtime.runJob;
-    if (!runJob) return { ok: false, message: "Exact checks run in the desktop extension and the command line (spinwright solve), not in the browser." };
+    if (!runJob) return { ok: false, message: "Exact checks are not available here: this host cannot start a worker for heavy jobs (a browser without workers inside workers). Use the desktop extension or `spinwright solve FILE`." };
     const doc = documents.get(uri);
     const x = analysisOf(uri);
     if (!doc || !x) return { ok: false, message: "No analysis for this document." };
