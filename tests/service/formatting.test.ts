@@ -100,6 +100,14 @@ describe("formatting", () => {
     }
   });
 
+  it("finds every bundled sample already in canonical form", () => {
+    const dir = join(__dirname, "..", "..", "samples");
+    for (const f of readdirSync(dir).filter((x) => x.endsWith(".spw"))) {
+      const text = readFileSync(join(dir, f), "utf8");
+      expect(format(text), f).toBe(text);
+    }
+  });
+
   it("splits two statements written on one line", () => {
     const text = `model "m" {\n  spin 1/2 convention antiferro-positive\n  lattice chain\n}\n`;
     expect(format(text)).toBe(`model "m" {\n  spin 1/2\n  convention antiferro-positive\n  lattice chain\n}\n`);
@@ -113,5 +121,28 @@ describe("formatting", () => {
   it("keeps CRLF line endings", () => {
     const text = `model "m"{\r\n  lattice chain\r\nlet J = 1 meV\r\n}\r\n`;
     expect(format(text)).toBe(`model "m" {\r\n  lattice chain\r\n  let J = 1 meV\r\n}\r\n`);
+  });
+  it("aligns trailing comments on consecutive lines, canonically (whatever their columns before)", () => {
+    const body = (a: string, b: string, c: string) => `model "c" {
+  convention antiferro-positive${a}# H = +J S_i.S_j
+  lattice chain sites Cu${b}# presets: chain ladder
+  let J1 = 10.7 K${c}# from the fit
+
+  g Cu = 2.06 # alone: one space
+}
+`;
+    const expected = `model "c" {
+  convention antiferro-positive # H = +J S_i.S_j
+  lattice chain sites Cu        # presets: chain ladder
+  let J1 = 10.7 K               # from the fit
+
+  g Cu = 2.06 # alone: one space
+}
+`;
+    expect(format(body(" ", " ", " "))).toBe(expected);
+    expect(format(body("          ", "   ", "                     "))).toBe(expected);
+    expect(format(expected)).toBe(expected);
+    // A quoted name holding '#' is not a comment.
+    expect(format('model "a#b" { # the model\n  spin 1/2 # spin\n}\n')).toBe('model "a#b" { # the model\n  spin 1/2    # spin\n}\n');
   });
 });

@@ -93,7 +93,9 @@ export function formatText(a: DocumentAnalysis): string | null {
     }
     const gap = text.slice(previous.end, cur.start);
     const newlines = (gap.match(/\r\n|\r|\n/g) ?? []).length;
-    const forced = starts.has(cur.start) || cur.image === "}" || previous.image === "{" || previous.isComment || previous.image === "}";
+    // A comment on the same line as the token before it stays there (after `{` too).
+    const sameLineComment = cur.isComment && newlines === 0;
+    const forced = !sameLineComment && (starts.has(cur.start) || cur.image === "}" || previous.image === "{" || previous.isComment || previous.image === "}");
     if (forced || newlines > 0) {
       const blank = newlines >= 2 && previous.image !== "{" && cur.image !== "}";
       // A line that does not begin a statement continues the one above: one level deeper.
@@ -110,8 +112,45 @@ export function formatText(a: DocumentAnalysis): string | null {
     previousIndex = k;
     if (cur.image === "{") depth++;
   }
-  const formatted = out.join("") + (out.length > 0 ? eol : "");
+  const formatted = alignTrailingComments(out.join(""), eol) + (out.length > 0 ? eol : "");
   return sameTokens(text, formatted) ? formatted : null;
+}
+
+/** Where a line's trailing comment starts (a `#` outside a quoted name after some code), or -1. */
+function trailingCommentAt(line: string): number {
+  let quoted = false;
+  for (let i = 0; i < line.length; i++) {
+    const ch = line[i];
+    if (ch === '"') quoted = !quoted;
+    else if (ch === "#" && !quoted) return line.slice(0, i).trim() === "" ? -1 : i;
+  }
+  return -1;
+}
+
+/**
+ * Trailing comments on consecutive lines start in one column, one space after the longest code
+ * among them; a line without a trailing comment (or a blank line) ends the run. The rule depends
+ * on the tokens only, so the result is canonical: aligned or not before, the same after.
+ */
+function alignTrailingComments(text: string, eol: string): string {
+  const lines = text.split(eol);
+  let k = 0;
+  while (k < lines.length) {
+    if (trailingCommentAt(lines[k] as string) < 0) {
+      k++;
+      continue;
+    }
+    let end = k;
+    while (end < lines.length && trailingCommentAt(lines[end] as string) >= 0) end++;
+    const parts = lines.slice(k, end).map((l) => {
+      const at = trailingCommentAt(l);
+      return { code: l.slice(0, at).trimEnd(), comment: l.slice(at) };
+    });
+    const column = Math.max(...parts.map((p) => [...p.code].length)) + 1;
+    parts.forEach((p, i) => (lines[k + i] = p.code + " ".repeat(column - [...p.code].length) + p.comment));
+    k = end;
+  }
+  return lines.join(eol);
 }
 
 function spacing(items: readonly Item[], k: number, pk: number, inTight: (x: Item) => boolean): string {
