@@ -96,7 +96,7 @@ async function measure(s: Server, uri: string, languageId: string, text: string,
   const keystroke: number[] = [];
   const hover: number[] = [];
   let diagnostics = 0;
-  const warmup = 10;
+  const warmup = 40;
   for (let r = 0; r < warmup + rounds; r++) {
     const insert = r % 2 === 0;
     const range = insert ? { start: editPos, end: editPos } : { start: editPos, end: { line: editPos.line, character: editPos.character + 1 } };
@@ -135,7 +135,7 @@ export async function benchEditor(): Promise<string[]> {
   const ours = await startServer("spinwright", "server.js", ["--stdio"]);
   const json = await startServer("json reference", "benchJsonServer.js", ["--stdio"]);
   try {
-    out.push("through the protocol (stdio JSON-RPC, incremental sync, pull diagnostics), median after 10 warm-up rounds:");
+    out.push("through the protocol (stdio JSON-RPC, incremental sync, pull diagnostics), median after 40 warm-up rounds:");
     for (const [lines, rounds] of [
       [200, 60],
       [5000, 20],
