@@ -142,4 +142,18 @@ describe("hover on the field and the symmetry claim: predictions and computed sy
     expect(md).toMatch(/Computed: without the field U\(1\) about \(0, 0, 1\)/);
     expect(md).toMatch(/Dzyaloshinskii-Moriya/);
   });
+  it("the expect keyword itself gives the computed symmetry too", () => {
+    const md = hoverAt(HEISENBERG.replace("fie$0ld", "field").replace("expect su2", "exchange dm(0.05 * J, (0, 0, 1)) on Cu -> Cu + (1)\n  exp$0ect su2"));
+    expect(md).toMatch(/\*\*expect\*\* su2/);
+    expect(md).toMatch(/Computed: without the field U\(1\) about \(0, 0, 1\)/);
+    expect(md).toMatch(/SU\(2\) broken by: .*Dzyaloshinskii-Moriya/);
+  });
+
+  it("the model hover names the nearest phase boundary and how far the couplings are from it", () => {
+    // J1-J2 chain: J2c/J1 = 0.2411 (Okamoto & Nomura, Phys. Lett. A 169, 433 (1992)); 0.23 is
+    // (0.2411 - 0.23) / 0.2411 = 4.6 % below it.
+    const md = hoverAt(HEISENBERG.replace("fie$0ld", "field").replace('model "h"', 'model "h$0"').replace("exchange heisenberg(J) on shell 1", "exchange heisenberg(J) on shell 1\n  exchange heisenberg(0.23 * J) on shell 2"));
+    expect(md).toMatch(/nearest boundary: .*at J2\/J1 = 0\.2411/);
+    expect(md).toContain(`${(((0.2411 - 0.23) / 0.2411) * 100).toFixed(1)} % below it`);
+  });
 });

@@ -196,8 +196,10 @@ function statementHover(a: DocumentAnalysis, s: Statement, offset: number, span:
     case "expect": {
       const doc = SYMMETRY_CLAIMS[s.claim.name];
       const sym = a.physics?.symmetry;
-      const computed = sym ? `\n\nComputed: without the field ${describeClass(sym.h0, sym.axis)}; with the field ${describeClass(sym.full, sym.fullAxis)}.${sym.breaking.length ? ` Broken by: ${sym.breaking.map((b) => kindText(b.kind)).join("; ")}.` : ""}` : "";
-      return doc && spanContains(s.claim.span, offset) ? { span: s.claim.span, markdown: `**${s.claim.name}**: ${doc}${computed}` } : null;
+      const computed = sym ? `\n\nComputed: without the field ${describeClass(sym.h0, sym.axis)}; with the field ${describeClass(sym.full, sym.fullAxis)}.${sym.breaking.length ? ` SU(2) broken by: ${sym.breaking.map((b) => kindText(b.kind)).join("; ")}.` : ""}` : "";
+      if (doc && spanContains(s.claim.span, offset)) return { span: s.claim.span, markdown: `**${s.claim.name}**: ${doc}${computed}` };
+      // On the keyword or the axis: the claim as written and what the analysis found.
+      return sym ? { span: s.span, markdown: `**expect** ${s.claim.name}: the symmetry the author relies on, checked against the model.${computed}` } : null;
     }
     case "probe": {
       const e = model?.probe?.energyMeV;

@@ -64,6 +64,18 @@ export function physicsItems(a: DocumentAnalysis): PhysicsItem[] {
     const lines = [family.description];
     const place = family.placement;
     if (place) lines.push(`${place.parameter} = ${formatNumber(place.value)}: ${place.name}${place.source ? ` (${place.source})` : ""}`);
+    if (place?.boundary) {
+      const b = place.boundary;
+      const where = place.onBoundary
+        ? "on it within the quoted precision: the phase is not decided by these couplings"
+        : place.distance !== null
+          ? b.value !== 0
+            ? `${formatNumber(Math.abs(place.distance) * 100, 2)} % ${place.distance < 0 ? "below" : "above"} it`
+            : `${formatNumber(place.distance, 3)} from it`
+          : "";
+      lines.push(`nearest boundary: ${b.name} at ${place.parameter} = ${formatNumber(b.value)} (${b.source})${where ? `; ${where}` : ""}`);
+    }
+    if (place?.quantum) lines.push(`quantum picture: ${place.quantum.name}${place.quantum.uncertain ? " (near a debated edge)" : ""} (${place.quantum.source})`);
     items.push({ title: "Family", lines });
   }
   const res = p.resonance;

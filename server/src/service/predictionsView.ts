@@ -11,7 +11,7 @@ export function predictionLines(p: Predictions, options: { sweep?: boolean } = {
   }
   const val = (v: { value: number | null; method: string; reason: string | null }, unit: string): string =>
     v.value === null ? `not available: ${v.reason}` : `${fmt(v.value)}${unit} [${v.method}]`;
-  out.push(`magnetization m = ${val(p.magnetization, " per site")}`);
+  out.push(p.magnetization.value === null ? `magnetization m: ${val(p.magnetization, "")}` : `magnetization m = ${val(p.magnetization, " per site")}`);
   out.push(`saturation: ${val(p.saturationMeV, " meV")}${p.saturationFieldT !== null ? ` = ${fmt(p.saturationFieldT)} T along the field` : ""}`);
   out.push(`velocity: ${val(p.velocityMeV, " meV x lattice spacing")}`);
   if (p.regime) out.push(`regime: ${p.regime}`);
