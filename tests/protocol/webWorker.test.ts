@@ -48,8 +48,8 @@ interface WebServer {
   stop(): Promise<number>;
 }
 
-function startWebServer(nested: boolean): WebServer {
-  const worker = new Worker(BOOT, { eval: true, workerData: { boot: BOOT, href: pathToFileURL(SERVER_WEB).href, bundle: SERVER_WEB, nested } });
+function startWebServer(nested: boolean, href = pathToFileURL(SERVER_WEB).href): WebServer {
+  const worker = new Worker(BOOT, { eval: true, workerData: { boot: BOOT, href, bundle: SERVER_WEB, nested } });
   let nextId = 1;
   const pending = new Map<number, (m: { result?: unknown; error?: unknown }) => void>();
   worker.on("message", (m: { id?: number; method?: string; params?: { items?: unknown[] }; result?: unknown; error?: unknown }) => {
@@ -72,8 +72,8 @@ function startWebServer(nested: boolean): WebServer {
   };
 }
 
-async function initialize(s: WebServer): Promise<{ capabilities: { diagnosticProvider?: unknown } }> {
-  const init = (await s.request("initialize", { processId: null, rootUri: null, capabilities: { workspace: { configuration: true }, textDocument: { diagnostic: {} } } })).result;
+async function initialize(s: WebServer, initializationOptions: Record<string, unknown> = {}): Promise<{ capabilities: { diagnosticProvider?: unknown } }> {
+  const init = (await s.request("initialize", { processId: null, rootUri: null, initializationOptions, capabilities: { workspace: { configuration: true }, textDocument: { diagnostic: {} } } })).result;
   s.notify("initialized", {});
   return init as { capabilities: { diagnosticProvider?: unknown } };
 }
@@ -140,6 +140,36 @@ describe("web worker server", () => {
     // RequestCancelled (-32800); a finished 22-site solve would mean the cancel was ignored.
     if (result.error) expect(result.error.code).toBe(-32800);
     else expect(result.result).toMatchObject({ ok: false, cancelled: true });
+  });
+});
+
+describe("web worker server loaded from a blob: URL (as VS Code for the web loads it)", () => {
+  it("starts the job worker from the location the client passes in initializationOptions", async () => {
+    const server = startWebServer(true, "blob:http://localhost/00000000-0000-0000-0000-000000000000");
+    try {
+      await initialize(server, { jobWorkerUri: pathToFileURL(JOB_WORKER_WEB).href });
+      const uri = "file:///web-exact-8.spw";
+      server.notify("textDocument/didOpen", { textDocument: { uri, languageId: "spw", version: 1, text: chain(8) } });
+      const result = (await server.request("spinwright/exactCheck", { uri })).result as { ok: boolean; message: string; sites: number };
+      expect(result.ok, result.message).toBe(true);
+      expect(result.sites).toBe(8);
+    } finally {
+      await server.stop();
+    }
+  });
+
+  it("says where the job worker is missing when the client does not tell", async () => {
+    const server = startWebServer(true, "blob:http://localhost/00000000-0000-0000-0000-000000000000");
+    try {
+      await initialize(server);
+      const uri = "file:///web-exact-8.spw";
+      server.notify("textDocument/didOpen", { textDocument: { uri, languageId: "spw", version: 1, text: chain(8) } });
+      const result = (await server.request("spinwright/exactCheck", { uri })).result as { ok: boolean; message: string };
+      expect(result.ok).toBe(false);
+      expect(result.message).toMatch(/jobWorkerWeb\.js/);
+    } finally {
+      await server.stop();
+    }
   });
 });
 

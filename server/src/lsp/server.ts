@@ -66,6 +66,8 @@ export const PLOT_REQUEST = "spinwright/plot";
 /** What the host offers: heavy jobs off the main thread (absent in the browser build). */
 export interface ServerRuntime {
   readonly runJob?: <J extends HeavyJob>(job: J, options: { signal: AbortSignal; onProgress: (fraction: number, stage: string) => void }) => Promise<JobResult<J>>;
+  /** Receives the client's initializationOptions (e.g. where the browser job worker is). */
+  readonly initialize?: (options: Record<string, unknown>) => void;
 }
 
 /** Poles of the file's exact check on the plot's axes (q in units of pi). */
@@ -147,6 +149,7 @@ export function startServer(connection: Connection, runtime: ServerRuntime = {})
     dynamicConfiguration = caps.workspace?.didChangeConfiguration?.dynamicRegistration === true;
     const init = (params.initializationOptions ?? {}) as Record<string, unknown>;
     if (typeof init["diagnosticsDocUri"] === "string") docsUri = init["diagnosticsDocUri"];
+    runtime.initialize?.(init);
     if (init["settings"] !== undefined) settings = readSettings(init["settings"]);
     const capabilities: ServerCapabilities = {
       textDocumentSync: TextDocumentSyncKind.Incremental,
