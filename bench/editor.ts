@@ -26,7 +26,9 @@ interface Server {
 }
 
 async function startServer(name: string, script: string, args: string[]): Promise<Server> {
-  const child = spawn(process.execPath, [join(ROOT, "dist", script), ...args], { stdio: ["pipe", "pipe", "pipe"] });
+  // BENCH_NODE_ARGS (e.g. "--cpu-prof --cpu-prof-dir=/tmp/prof") goes to both servers' node.
+  const nodeArgs = (process.env["BENCH_NODE_ARGS"] ?? "").split(" ").filter(Boolean);
+  const child = spawn(process.execPath, [...nodeArgs, join(ROOT, "dist", script), ...args], { stdio: ["pipe", "pipe", "pipe"] });
   child.stderr.on("data", () => undefined);
   const connection = createProtocolConnection(new StreamMessageReader(child.stdout), new StreamMessageWriter(child.stdin));
   connection.onRequest("workspace/configuration", (p: { items: unknown[] }) => p.items.map(() => null));

@@ -97,3 +97,33 @@ describe("exact check over the protocol", () => {
     expect(() => parseFrames(server.stdout)).not.toThrow();
   });
 });
+
+describe("automatic exact check on save (spinwright.exactCheck.automatic)", () => {
+  it("runs when a file without errors is saved, and its poles reach the plot", async () => {
+    const server = startTestServer((items) => items.map(() => ({ exactCheck: { maxSites: 24, automatic: true } })));
+    try {
+      let ended!: () => void;
+      const end = new Promise<void>((resolve) => (ended = resolve));
+      server.connection.onRequest("window/workDoneProgress/create", () => null);
+      server.connection.onNotification("$/progress", (p: { value: { kind: string } }) => {
+        if (p.value.kind === "end") ended();
+      });
+      const caps = clientCapabilities(true);
+      const init = (await server.connection.sendRequest("initialize", { processId: process.pid, rootUri: null, capabilities: { ...caps, window: { workDoneProgress: true } } })) as {
+        capabilities: { textDocumentSync: { save?: unknown } };
+      };
+      expect(init.capabilities.textDocumentSync.save).toBeTruthy();
+      await server.connection.sendNotification("initialized", {});
+      const uri = "file:///work/auto.spw";
+      await server.connection.sendNotification("textDocument/didOpen", { textDocument: { uri, languageId: "spw", version: 1, text: chain(10) } });
+      const before = (await server.connection.sendRequest("spinwright/plot", { uri })) as { svg: string };
+      expect(before.svg).not.toMatch(/<circle [^>]*stroke="#2ca02c"/);
+      await server.connection.sendNotification("textDocument/didSave", { textDocument: { uri } });
+      await end;
+      const after = (await server.connection.sendRequest("spinwright/plot", { uri })) as { svg: string };
+      expect(after.svg).toMatch(/<circle [^>]*stroke="#2ca02c"/);
+    } finally {
+      server.child.kill();
+    }
+  });
+});

@@ -152,7 +152,7 @@ export function startServer(connection: Connection, runtime: ServerRuntime = {})
     runtime.initialize?.(init);
     if (init["settings"] !== undefined) settings = readSettings(init["settings"]);
     const capabilities: ServerCapabilities = {
-      textDocumentSync: TextDocumentSyncKind.Incremental,
+      textDocumentSync: { openClose: true, change: TextDocumentSyncKind.Incremental, save: { includeText: false } },
       hoverProvider: true,
       completionProvider: { triggerCharacters: [" ", "(", ">", ","], resolveProvider: false },
       signatureHelpProvider: { triggerCharacters: ["(", ","], retriggerCharacters: [","] },
@@ -213,6 +213,23 @@ export function startServer(connection: Connection, runtime: ServerRuntime = {})
   documents.onDidOpen(
     guard("open", undefined, (e) => {
       if (!pullDiagnostics) publish(e.document.uri);
+    }),
+  );
+
+  // spinwright.exactCheck.automatic: a saved file without errors whose cluster fits the size
+  // limit is checked at once (unless this version is already solved); an edit cancels the run.
+  documents.onDidSave(
+    guard("save", undefined, (e) => {
+      if (!settings.exactCheckAutomatic || !runtime.runJob) return;
+      const uri = e.document.uri;
+      if (solves.get(uri)?.version === e.document.version || running.has(uri)) return;
+      const x = analysisOf(uri);
+      if (!x?.a.model || x.a.diagnostics.some((d) => d.severity === "error")) return;
+      const sites = service.clusterSiteCount(x.a);
+      if (sites === null || sites > settings.exactCheckMaxSites) return;
+      void runExactCheck(uri).then((r) => {
+        if (!r["ok"] && !r["cancelled"]) connection.console.warn(`automatic exact check of ${uri}: ${String(r["message"])}`);
+      });
     }),
   );
 
