@@ -1,7 +1,10 @@
 // Bundles the command-line checker, the language server, the exact-diagonalization worker and
 // the benchmarks with esbuild. Type checking is separate (`npm run typecheck`).
 import { build } from "esbuild";
-import { existsSync } from "node:fs";
+import { existsSync, rmSync } from "node:fs";
+
+// --production (used by `npm run package`): minified, no source maps, for the .vsix.
+const production = process.argv.includes("--production");
 
 const entries = [
   ["server/src/cli/main.ts", "dist/cli.js"],
@@ -21,10 +24,14 @@ for (const [entry, outfile] of entries) {
     platform: "node",
     target: "node20",
     format: "cjs",
-    sourcemap: true,
+    sourcemap: !production,
+    minify: production,
+    ...(production ? { legalComments: "none" } : {}),
     logLevel: "warning",
     // vscode-json-languageservice's UMD build requires its modules dynamically; take its ES build.
     ...(entry.startsWith("bench/jsonServer") ? { mainFields: ["module", "main"] } : {}),
     banner: entry.endsWith("cli/main.ts") ? { js: "#!/usr/bin/env node" } : {},
   });
+  // A minified bundle has no map; an old one beside it would point at other code.
+  if (production && existsSync(`${outfile}.map`)) rmSync(`${outfile}.map`);
 }

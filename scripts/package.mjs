@@ -8,7 +8,7 @@ import { join } from "node:path";
 const root = process.cwd();
 const run = (cmd, args) => execFileSync(cmd, args, { stdio: "inherit", cwd: root });
 
-run(process.execPath, ["scripts/build.mjs"]);
+run(process.execPath, ["scripts/build.mjs", "--production"]);
 run(process.execPath, ["scripts/buildEditor.mjs", "--production"]);
 for (const f of ["dist/server.js", "dist/extension.js", "dist/browserExtension.js", "dist/serverWeb.js", "dist/jobWorkerWeb.js"])
   if (!existsSync(join(root, f))) throw new Error(`${f} is missing after the build`);
