@@ -8,6 +8,7 @@ import { formatText } from "./format";
 import { describeClass, kindText } from "../analysis/symmetryCheck";
 import { MEV_PER_CM } from "../model/units";
 import { predictionLines } from "../service/predictionsView";
+import { boundaryText } from "../service/physicsView";
 
 export function renderReport(file: string, a: DocumentAnalysis): string {
   const out: string[] = [];
@@ -82,8 +83,8 @@ function physicsLines(a: DocumentAnalysis): string[] {
   const r = p.family.placement;
   if (r) {
     out.push(`family: ${p.family.description}; region: ${r.name} at ${r.parameter} = ${fmt(r.value)}`);
-    if (r.boundary)
-      out.push(`  nearest boundary: ${r.boundary.name} at ${fmt(r.boundary.value)} (${r.boundary.source}); relative distance ${r.distance === null ? "n/a" : fmt(r.distance)}`);
+    const boundary = boundaryText(r);
+    if (boundary) out.push(`  ${boundary}`);
     if (r.quantum) out.push(`  quantum picture: ${r.quantum.name} (${r.quantum.source})`);
   } else out.push(`family: ${p.family.description}`);
   const z = p.resonance;

@@ -3,6 +3,7 @@
 // the q = 0 resonance. The summary is still growing, so every field is read with optional
 // chaining and keys this file does not know yet are shown from their text fields. Service layer.
 import type { DocumentAnalysis } from "../analysis/analyze";
+import type { RegionPlacement } from "../physics/regions";
 import type { Vec3 } from "../physics/types";
 import { predictionLines } from "./predictionsView";
 import { energyText, formatNumber } from "./common";
@@ -64,17 +65,8 @@ export function physicsItems(a: DocumentAnalysis): PhysicsItem[] {
     const lines = [family.description];
     const place = family.placement;
     if (place) lines.push(`${place.parameter} = ${formatNumber(place.value)}: ${place.name}${place.source ? ` (${place.source})` : ""}`);
-    if (place?.boundary) {
-      const b = place.boundary;
-      const where = place.onBoundary
-        ? "on it within the quoted precision: the phase is not decided by these couplings"
-        : place.distance !== null
-          ? b.value !== 0
-            ? `${formatNumber(Math.abs(place.distance) * 100, 2)} % ${place.distance < 0 ? "below" : "above"} it`
-            : `${formatNumber(place.distance, 3)} from it`
-          : "";
-      lines.push(`nearest boundary: ${b.name} at ${place.parameter} = ${formatNumber(b.value)} (${b.source})${where ? `; ${where}` : ""}`);
-    }
+    const boundary = place ? boundaryText(place) : null;
+    if (boundary) lines.push(boundary);
     if (place?.quantum) lines.push(`quantum picture: ${place.quantum.name}${place.quantum.uncertain ? " (near a debated edge)" : ""} (${place.quantum.source})`);
     items.push({ title: "Family", lines });
   }
@@ -93,4 +85,18 @@ export function physicsItems(a: DocumentAnalysis): PhysicsItem[] {
     if (lines.length > 0) items.push({ title: key.charAt(0).toUpperCase() + key.slice(1), lines });
   }
   return items;
+}
+
+/** The nearest phase boundary of a placement and how far the couplings are from it, or null. */
+export function boundaryText(place: RegionPlacement): string | null {
+  const b = place.boundary;
+  if (!b) return null;
+  const where = place.onBoundary
+    ? "on it within the quoted precision: the phase is not decided by these couplings"
+    : place.distance !== null
+      ? b.value !== 0
+        ? `${formatNumber(Math.abs(place.distance) * 100, 2)} % ${place.distance < 0 ? "below" : "above"} it`
+        : `${formatNumber(place.distance, 3)} from it`
+      : "";
+  return `nearest boundary: ${b.name} at ${place.parameter} = ${formatNumber(b.value)} (${b.source})${where ? `; ${where}` : ""}`;
 }
