@@ -156,4 +156,16 @@ describe("hover on the field and the symmetry claim: predictions and computed sy
     expect(md).toMatch(/nearest boundary: .*at J2\/J1 = 0\.2411/);
     expect(md).toContain(`${(((0.2411 - 0.23) / 0.2411) * 100).toFixed(1)} % below it`);
   });
+  it("a coupling's hover gives its character and its share in the frustrated triangles", () => {
+    // J1-J2 chain: the shortest loop is the triangle (i, i+1, i+2), two J1 bonds and one J2
+    // (derivable); with both antiferromagnetic it is frustrated.
+    const chainJ1J2 = HEISENBERG.replace("fie$0ld", "field").replace("exchange heisenberg(J) on shell 1", "exchange heisenberg(J) on shell 1\n  exchange heisenberg(0.3 * J) on shell 2");
+    const md = hoverAt(chainJ1J2.replace("let J = 1 meV", "let $0J = 1 meV"));
+    expect(md).toMatch(/antiferromagnetic, J = 1 meV/);
+    expect(md).toMatch(/triangle J-J-heisenberg #2 \([0-9]+ per cluster, frustrated\): 2 of its 3 bonds/);
+    // The same numbers under the ferro-positive convention: H = -J S.S, so J > 0 is ferromagnetic.
+    const ferro = hoverAt(chainJ1J2.replace("antiferro-positive", "ferro-positive").replace("let J = 1 meV", "let $0J = 1 meV"));
+    expect(ferro).toMatch(/ferromagnetic, J = -1 meV/);
+    expect(ferro).toMatch(/not frustrated\): 2 of its 3 bonds/);
+  });
 });

@@ -2,6 +2,7 @@
 // written unit and in meV, K, GHz; the Zeeman energy g muB B on the field; exchange matrices,
 // sites, presets, units and keywords; the physics summary on the model name. Service layer.
 import type { DocumentAnalysis } from "../analysis/analyze";
+import { termLabel } from "../analysis/couplings";
 import type { Span } from "../base/text";
 import { describeBond } from "../model/build";
 import { PRESETS } from "../model/lattice";
@@ -75,8 +76,46 @@ function parameterHover(a: DocumentAnalysis, model: SpinModel, name: string): st
     const bonds = model.lattice ? e.bonds.map((b) => describeBond(model.lattice!, b.from, b.to, b.offset)) : [];
     out.push(`- ${e.kind} on ${bonds.slice(0, 3).join(", ")}${bonds.length > 3 ? `, ... (${bonds.length} bonds per cell)` : ""}`);
   }
+  for (const e of uses.slice(0, 5)) out.push(...termPhysics(a, model.exchanges.indexOf(e)));
   if (p?.value && p.value.energy === 1 && p.value.field === 0) out.push(CODATA_NOTE);
   return out.join("\n\n");
+}
+
+const CHARACTER_TEXT: Record<string, string> = {
+  antiferro: "antiferromagnetic",
+  ferro: "ferromagnetic",
+  zero: "no isotropic part",
+  antisymmetric: "purely antisymmetric (Dzyaloshinskii-Moriya)",
+};
+
+/**
+ * What the analysis says of one exchange term: its character in H = + sum S_i.J.S_j (after the
+ * file's convention) and its share in each frustrated shortest cycle (how many of the cycle's
+ * bonds it carries).
+ */
+function termPhysics(a: DocumentAnalysis, index: number): string[] {
+  const p = a.physics;
+  if (!p || index < 0) return [];
+  const c = p.couplings.find((x) => x.index === index);
+  const term = a.model?.exchanges[index];
+  const out: string[] = [];
+  if (c) {
+    const convention = a.model?.convention?.value ?? "antiferro-positive (assumed)";
+    out.push(`${c.name ? `${c.name} (${c.kind})` : c.kind}: ${CHARACTER_TEXT[c.character] ?? c.character}, J = ${formatNumber(c.valueMeV)} meV in H = + Σ S_i·J·S_j (convention ${convention})`);
+  }
+  const cycles = p.frustration.filter((g) => g.terms.includes(index));
+  if (cycles.length === 0) out.push("in no closed cycle of the cluster's shortest loops");
+  else {
+    const lines = cycles.map((g) => {
+      // Edges are labelled by the terms on them ("J1", or "J1+D" for two terms on one bond).
+      const label = term ? termLabel(term) : "";
+      const share = g.couplings.filter((edge) => edge.split("+").includes(label)).length;
+      const state = g.frustrated === true ? "frustrated" : g.frustrated === false ? "not frustrated" : "frustration undecided";
+      return `- ${g.cycle} (${g.count} per cluster, ${state}): ${share} of its ${g.length} bonds`;
+    });
+    out.push(`In the shortest cycles:\n${lines.join("\n")}`);
+  }
+  return out;
 }
 
 function siteHover(model: SpinModel, name: string): string {
@@ -177,6 +216,7 @@ function statementHover(a: DocumentAnalysis, s: Statement, offset: number, span:
             "\n```",
         );
         out.push(`${term.bonds.length} bond(s) per cell.`);
+        out.push(...termPhysics(a, model!.exchanges.indexOf(term)));
       }
       return { span: s.exchangeKind.span, markdown: out.join("\n\n") };
     }
