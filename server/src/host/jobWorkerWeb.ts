@@ -2,8 +2,7 @@
 // one HeavyJob, answers with the messages of JobWorkerMessage (progress, then result or error).
 // Cancellation: the parent terminates the worker. Host layer.
 import { serializeEdError } from "../physics/ed/errors";
-import { runJob, type HeavyJob } from "./jobs";
-import type { JobWorkerMessage } from "./runJobWeb";
+import { runJob, type HeavyJob, type JobWorkerMessage } from "./jobs";
 
 // The dedicated worker's global scope, typed here so the shared tsconfig needs no DOM library.
 declare const self: { onmessage: ((event: { data: unknown }) => void) | null; postMessage(message: JobWorkerMessage): void };

@@ -5,12 +5,19 @@ import type { DocumentAnalysis } from "../analysis/analyze";
 import { calibrateChain } from "../analysis/exactCalibration";
 import { buildFiniteCluster } from "../model/cluster";
 import type { ChainCouplings, ExactCalibration } from "../analysis/predictions";
+import type { SerializedEdError } from "../physics/ed/errors";
 import { solveExact, type ExactHooks, type ExactOptions, type ExactResult } from "../physics/ed/solve";
 import type { SpinCluster, Vec3 } from "../physics/types";
 
 export type HeavyJob =
   | { readonly kind: "solve"; readonly cluster: SpinCluster; readonly options: ExactOptions }
   | { readonly kind: "calibrate"; readonly couplings: ChainCouplings; readonly sites: number };
+
+/** Messages from a job worker (Node worker thread or Web Worker) to its parent. */
+export type JobWorkerMessage =
+  | { type: "progress"; fraction: number; stage: string }
+  | { type: "result"; result: unknown }
+  | { type: "error"; error: SerializedEdError };
 
 export type JobResult<J extends HeavyJob> = J extends { kind: "solve" } ? ExactResult : ExactCalibration;
 

@@ -3,8 +3,8 @@
 import { existsSync } from "node:fs";
 import { join, resolve } from "node:path";
 import { Worker } from "node:worker_threads";
-import { CancelledError, deserializeEdError, type SerializedEdError } from "../physics/ed/errors";
-import type { HeavyJob, JobResult } from "./jobs";
+import { CancelledError, deserializeEdError } from "../physics/ed/errors";
+import type { HeavyJob, JobResult, JobWorkerMessage } from "./jobs";
 
 export interface RunJobOptions {
   readonly onProgress?: (fraction: number, stage: string) => void;
@@ -17,11 +17,6 @@ export function defaultJobWorkerPath(): string {
   if (here && existsSync(join(here, "jobWorker.js"))) return join(here, "jobWorker.js");
   return resolve(__dirname ?? process.cwd(), "..", "..", "..", "dist", "jobWorker.js");
 }
-
-type Message =
-  | { type: "progress"; fraction: number; stage: string }
-  | { type: "result"; result: unknown }
-  | { type: "error"; error: SerializedEdError };
 
 export function runJobInWorker<J extends HeavyJob>(job: J, options: RunJobOptions = {}): Promise<JobResult<J>> {
   const path = options.workerPath ?? defaultJobWorkerPath();
@@ -39,7 +34,7 @@ export function runJobInWorker<J extends HeavyJob>(job: J, options: RunJobOption
     };
     const onAbort = (): void => finish(() => reject(new CancelledError()));
     options.signal?.addEventListener("abort", onAbort, { once: true });
-    worker.on("message", (m: Message) => {
+    worker.on("message", (m: JobWorkerMessage) => {
       if (m.type === "progress") options.onProgress?.(m.fraction, m.stage);
       else if (m.type === "result") finish(() => resolvePromise(m.result as JobResult<J>));
       else finish(() => reject(deserializeEdError(m.error)));

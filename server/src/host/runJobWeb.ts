@@ -2,8 +2,8 @@
 // Worker and starts this one inside it): progress forwarded, an AbortSignal terminates the worker
 // at once, failures reject with a clear Error. The worker is made by `createWorker`, so the same
 // code runs against a real browser Worker or a test double. Host layer (no DOM types, no Node).
-import { CancelledError, deserializeEdError, type SerializedEdError } from "../physics/ed/errors";
-import type { HeavyJob, JobResult } from "./jobs";
+import { CancelledError, deserializeEdError } from "../physics/ed/errors";
+import type { HeavyJob, JobResult, JobWorkerMessage } from "./jobs";
 
 /** The part of the browser's Worker that the runner uses. */
 export interface WebWorkerLike {
@@ -18,12 +18,6 @@ export interface RunWebJobOptions {
   readonly onProgress?: (fraction: number, stage: string) => void;
   readonly signal?: AbortSignal;
 }
-
-/** Messages from the worker (server/src/host/jobWorkerWeb.ts); the same as the Node worker's. */
-export type JobWorkerMessage =
-  | { type: "progress"; fraction: number; stage: string }
-  | { type: "result"; result: unknown }
-  | { type: "error"; error: SerializedEdError };
 
 export function runJobInWebWorker<J extends HeavyJob>(job: J, options: RunWebJobOptions): Promise<JobResult<J>> {
   return new Promise<JobResult<J>>((resolvePromise, reject) => {
