@@ -111,7 +111,6 @@ async function measure(s: Server, uri: string, languageId: string, text: string,
     const t1 = performance.now();
     await c.sendRequest("textDocument/hover", { textDocument: { uri }, position: hoverPos });
     const t2 = performance.now();
-    if (process.env.BENCH_DEBUG) console.error(s.name, r, (t1 - t0).toFixed(1), (t2 - t1).toFixed(1));
     if (r >= warmup) {
       keystroke.push(t1 - t0);
       hover.push(t2 - t1);

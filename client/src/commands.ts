@@ -88,8 +88,10 @@ async function copyReport(client: BaseLanguageClient, uri: vscode.Uri): Promise<
   void vscode.window.showInformationMessage(`Spinwright: report for ${fileName(uri)} copied.`);
 }
 
-/** Asks the server to run the exact check (it shows progress with a Cancel button). */
-/** Runs the exact check and reports its message; returns the server's answer (for callers and tests). */
+/**
+ * Asks the server to run the exact check (it shows progress with a Cancel button), reports its
+ * message and returns the server's answer (for callers and tests).
+ */
 async function runExactCheck(client: BaseLanguageClient, uri: vscode.Uri): Promise<{ ok: boolean; message: string } | null> {
   const result = await client.sendRequest<{ ok: boolean; message: string } | null>(EXACT_CHECK_REQUEST, { uri: uri.toString() });
   const text = `Spinwright: ${result?.message ?? "no answer from the server."}`;

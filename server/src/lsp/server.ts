@@ -63,7 +63,7 @@ export const REPORT_REQUEST = "spinwright/report";
 export const EXACT_CHECK_REQUEST = "spinwright/exactCheck";
 export const PLOT_REQUEST = "spinwright/plot";
 
-/** What the host offers: heavy jobs off the main thread (absent in the browser build). */
+/** What the host offers: heavy jobs off the main thread (absent where no worker can be started). */
 export interface ServerRuntime {
   readonly runJob?: <J extends HeavyJob>(job: J, options: { signal: AbortSignal; onProgress: (fraction: number, stage: string) => void }) => Promise<JobResult<J>>;
   /** Receives the client's initializationOptions (e.g. where the browser job worker is). */

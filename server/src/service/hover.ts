@@ -104,11 +104,11 @@ function termPhysics(a: DocumentAnalysis, index: number): string[] {
     out.push(`${c.name ? `${c.name} (${c.kind})` : c.kind}: ${CHARACTER_TEXT[c.character] ?? c.character}, J = ${formatNumber(c.valueMeV)} meV in H = + Σ S_i·J·S_j (convention ${convention})`);
   }
   const cycles = p.frustration.filter((g) => g.terms.includes(index));
+  // Edges are labelled by the terms on them ("J1", or "J1+D" for two terms on one bond).
+  const label = term ? termLabel(term) : "";
   if (cycles.length === 0) out.push("in no closed cycle of the cluster's shortest loops");
   else {
     const lines = cycles.map((g) => {
-      // Edges are labelled by the terms on them ("J1", or "J1+D" for two terms on one bond).
-      const label = term ? termLabel(term) : "";
       const share = g.couplings.filter((edge) => edge.split("+").includes(label)).length;
       const state = g.frustrated === true ? "frustrated" : g.frustrated === false ? "not frustrated" : "frustration undecided";
       return `- ${g.cycle} (${g.count} per cluster, ${state}): ${share} of its ${g.length} bonds`;
