@@ -52,29 +52,7 @@ export function firstModel(a: DocumentAnalysis): ModelBlock | undefined {
 
 /** The token that contains `offset` or ends right at it (the word the cursor touches). */
 export function tokenAt(a: DocumentAnalysis, offset: number): IToken | undefined {
-  const tokens = a.parsed.tokens;
-  let lo = 0;
-  let hi = tokens.length - 1;
-  let found: IToken | undefined;
-  while (lo <= hi) {
-    const mid = (lo + hi) >> 1;
-    const t = tokens[mid] as IToken;
-    if (t.startOffset > offset) hi = mid - 1;
-    else {
-      found = t;
-      lo = mid + 1;
-    }
-  }
-  if (!found) return undefined;
-  const span = tokenSpan(found);
-  if (offset < span.end) return found;
-  if (offset === span.end) {
-    // At a boundary prefer a word over punctuation on the right: `J1|)` hovers J1.
-    const next = tokens[tokens.indexOf(found) + 1];
-    if (next && next.startOffset === offset && /^[A-Za-z_0-9]/.test(next.image) && !/^[A-Za-z_0-9]/.test(found.image)) return next;
-    return found;
-  }
-  return undefined;
+  return a.parsed.tokenAt(offset);
 }
 
 /** Index of the last token that ends at or before `offset`, or -1. */

@@ -5,7 +5,7 @@
 import type { IToken } from "chevrotain";
 import type { DocumentAnalysis } from "../analysis/analyze";
 import type { Span } from "../base/text";
-import { spwLexer } from "../syntax/lexer";
+import { scanText } from "../syntax/scanner";
 import type { TextEdit } from "./common";
 
 interface Item {
@@ -172,8 +172,8 @@ function spacing(items: readonly Item[], k: number, pk: number, inTight: (x: Ite
 
 /** Formatting may only change white space: both texts must lex to the same tokens and comments. */
 function sameTokens(before: string, after: string): boolean {
-  const x = spwLexer.tokenize(before);
-  const y = spwLexer.tokenize(after);
+  const x = scanText(before);
+  const y = scanText(after);
   if (x.errors.length > 0 || y.errors.length > 0 || x.tokens.length !== y.tokens.length) return false;
   for (let i = 0; i < x.tokens.length; i++) {
     const s = x.tokens[i] as IToken;
@@ -186,7 +186,7 @@ function sameTokens(before: string, after: string): boolean {
       if ((s.startLine === s0.endLine) !== (t.startLine === t0.endLine)) return false;
     }
   }
-  const cx = (x.groups["comments"] ?? []).map((c) => c.image.replace(/\s+$/, ""));
-  const cy = (y.groups["comments"] ?? []).map((c) => c.image.replace(/\s+$/, ""));
+  const cx = x.comments.map((c) => c.image.replace(/\s+$/, ""));
+  const cy = y.comments.map((c) => c.image.replace(/\s+$/, ""));
   return cx.length === cy.length && cx.every((c, i) => c === cy[i]);
 }

@@ -135,3 +135,229 @@ export function statementExprs(s: Statement): Expr[] {
       return [];
   }
 }
+
+// ---- moving trees --------------------------------------------------------------------------
+// A statement piece is parsed once with offsets relative to its own start; parse.ts then moves its
+// tree to wherever the piece sits in each version of the file. `copyStatement` copies a tree
+// (every span moved by `delta`); `forEachSpan` reaches every span object of a tree, which lets
+// parse.ts move a tree in place. No span object is shared between two nodes (lower.ts makes a
+// new one for each), so every span is reached once.
+
+export function shiftSpan(s: Span, delta: number): Span {
+  return { start: s.start + delta, end: s.end + delta };
+}
+
+/** Calls `visit` once on every span object of an expression tree. */
+export function forEachExprSpan(e: Expr, visit: (s: Span) => void): void {
+  visit(e.span);
+  switch (e.kind) {
+    case "number":
+      if (e.unit) visit(e.unit.span);
+      break;
+    case "unary":
+      forEachExprSpan(e.operand, visit);
+      break;
+    case "binary":
+      forEachExprSpan(e.left, visit);
+      forEachExprSpan(e.right, visit);
+      break;
+    case "tuple":
+    case "list":
+      for (const item of e.items) forEachExprSpan(item, visit);
+      break;
+    case "call":
+      visit(e.callee.span);
+      for (const a of e.args) forEachExprSpan(a, visit);
+      break;
+    default:
+      break;
+  }
+}
+
+/** Calls `visit` once on every span object of a statement's tree. */
+export function forEachSpan(s: Statement, visit: (span: Span) => void): void {
+  visit(s.span);
+  const x = (e: Expr): void => forEachExprSpan(e, visit);
+  switch (s.kind) {
+    case "spin":
+      if (s.site) visit(s.site.span);
+      x(s.value);
+      break;
+    case "convention":
+      visit(s.value.span);
+      break;
+    case "latticePreset":
+      visit(s.preset.span);
+      for (const n of s.siteNames) visit(n.span);
+      break;
+    case "latticeCustom":
+      for (const v of s.vectors) {
+        visit(v.span);
+        visit(v.name.span);
+        x(v.value);
+      }
+      for (const site of s.sites) {
+        visit(site.span);
+        visit(site.name.span);
+        x(site.position);
+        if (site.spin) x(site.spin);
+      }
+      break;
+    case "let":
+      visit(s.name.span);
+      x(s.value);
+      break;
+    case "exchange":
+      visit(s.exchangeKind.span);
+      visit(s.argsSpan);
+      for (const a of s.args) x(a);
+      for (const b of s.bonds) {
+        visit(b.span);
+        if (b.kind === "shell") visit(b.shellSpan);
+        else {
+          visit(b.from.span);
+          visit(b.to.span);
+          if (b.offset) x(b.offset);
+        }
+      }
+      break;
+    case "anisotropy":
+      visit(s.site.span);
+      for (const c of s.clauses) {
+        visit(c.span);
+        visit(c.name.span);
+        x(c.value);
+      }
+      if (s.axis) x(s.axis);
+      break;
+    case "g":
+      visit(s.site.span);
+      x(s.value);
+      break;
+    case "field":
+      x(s.magnitude);
+      if (s.direction) x(s.direction);
+      if (s.sweep) {
+        visit(s.sweep.span);
+        x(s.sweep.from);
+        x(s.sweep.to);
+        if (s.sweep.steps) x(s.sweep.steps);
+      }
+      break;
+    case "cluster":
+      x(s.size);
+      if (s.boundary) visit(s.boundary.span);
+      break;
+    case "probe":
+      x(s.value);
+      break;
+    case "expect":
+      visit(s.claim.span);
+      if (s.axis) x(s.axis);
+      break;
+    case "junk":
+      break;
+  }
+}
+
+function copyName(n: NameRef, delta: number): NameRef {
+  return { name: n.name, span: shiftSpan(n.span, delta) };
+}
+
+function copyExpr(e: Expr, delta: number): Expr {
+  const span = shiftSpan(e.span, delta);
+  switch (e.kind) {
+    case "number":
+      return e.unit
+        ? { kind: "number", span, value: e.value, text: e.text, unit: { name: e.unit.name, power: e.unit.power, span: shiftSpan(e.unit.span, delta) } }
+        : { kind: "number", span, value: e.value, text: e.text };
+    case "name":
+      return { kind: "name", span, name: e.name };
+    case "unary":
+      return { kind: "unary", span, op: e.op, operand: copyExpr(e.operand, delta) };
+    case "binary":
+      return { kind: "binary", span, op: e.op, left: copyExpr(e.left, delta), right: copyExpr(e.right, delta) };
+    case "tuple":
+      return { kind: "tuple", span, items: e.items.map((x) => copyExpr(x, delta)) };
+    case "list":
+      return { kind: "list", span, items: e.items.map((x) => copyExpr(x, delta)) };
+    case "call":
+      return { kind: "call", span, callee: copyName(e.callee, delta), args: e.args.map((x) => copyExpr(x, delta)) };
+    case "missing":
+      return { kind: "missing", span };
+  }
+}
+
+function copyBond(b: BondSpec, delta: number): BondSpec {
+  const span = shiftSpan(b.span, delta);
+  if (b.kind === "shell") return { kind: "shell", span, shell: b.shell, shellSpan: shiftSpan(b.shellSpan, delta) };
+  const from = copyName(b.from, delta);
+  const to = copyName(b.to, delta);
+  return b.offset ? { kind: "explicit", span, from, to, offset: copyExpr(b.offset, delta) } : { kind: "explicit", span, from, to };
+}
+
+/** A copy of a statement's tree with every span moved by `delta`. */
+export function copyStatement(s: Statement, delta: number): Statement {
+  const span = shiftSpan(s.span, delta);
+  const x = (e: Expr): Expr => copyExpr(e, delta);
+  switch (s.kind) {
+    case "spin":
+      return s.site ? { kind: "spin", span, site: copyName(s.site, delta), value: x(s.value) } : { kind: "spin", span, value: x(s.value) };
+    case "convention":
+      return { kind: "convention", span, value: copyName(s.value, delta) };
+    case "latticePreset":
+      return { kind: "latticePreset", span, preset: copyName(s.preset, delta), siteNames: s.siteNames.map((n) => copyName(n, delta)) };
+    case "latticeCustom":
+      return {
+        kind: "latticeCustom",
+        span,
+        vectors: s.vectors.map((v) => ({ name: copyName(v.name, delta), value: x(v.value), span: shiftSpan(v.span, delta) })),
+        sites: s.sites.map((site) =>
+          site.spin
+            ? { name: copyName(site.name, delta), position: x(site.position), spin: x(site.spin), span: shiftSpan(site.span, delta) }
+            : { name: copyName(site.name, delta), position: x(site.position), span: shiftSpan(site.span, delta) },
+        ),
+      };
+    case "let":
+      return { kind: "let", span, name: copyName(s.name, delta), value: x(s.value) };
+    case "exchange":
+      return {
+        kind: "exchange",
+        span,
+        exchangeKind: copyName(s.exchangeKind, delta),
+        args: s.args.map(x),
+        argsSpan: shiftSpan(s.argsSpan, delta),
+        bonds: s.bonds.map((b) => copyBond(b, delta)),
+      };
+    case "anisotropy": {
+      const clauses = s.clauses.map((c) => ({ name: copyName(c.name, delta), value: x(c.value), span: shiftSpan(c.span, delta) }));
+      return s.axis
+        ? { kind: "anisotropy", span, site: copyName(s.site, delta), clauses, axis: x(s.axis) }
+        : { kind: "anisotropy", span, site: copyName(s.site, delta), clauses };
+    }
+    case "g":
+      return { kind: "g", span, site: copyName(s.site, delta), value: x(s.value) };
+    case "field": {
+      const sweep = s.sweep
+        ? s.sweep.steps
+          ? { from: x(s.sweep.from), to: x(s.sweep.to), steps: x(s.sweep.steps), span: shiftSpan(s.sweep.span, delta) }
+          : { from: x(s.sweep.from), to: x(s.sweep.to), span: shiftSpan(s.sweep.span, delta) }
+        : undefined;
+      return {
+        kind: "field",
+        span,
+        magnitude: x(s.magnitude),
+        ...(s.direction ? { direction: x(s.direction) } : {}),
+        ...(sweep ? { sweep } : {}),
+      };
+    }
+    case "cluster":
+      return s.boundary ? { kind: "cluster", span, size: x(s.size), boundary: copyName(s.boundary, delta) } : { kind: "cluster", span, size: x(s.size) };
+    case "probe":
+      return { kind: "probe", span, value: x(s.value) };
+    case "expect":
+      return s.axis ? { kind: "expect", span, claim: copyName(s.claim, delta), axis: x(s.axis) } : { kind: "expect", span, claim: copyName(s.claim, delta) };
+    case "junk":
+      return { kind: "junk", span, text: s.text };
+  }
+}

@@ -1,4 +1,6 @@
-// Tokens of the .spw format and the chevrotain lexer. Syntax layer: imports chevrotain only.
+// Tokens of the .spw format: chevrotain token types (the parser matches on them) with the patterns
+// that define them. scanner.ts reads text into these tokens by hand, and its test holds it to a
+// chevrotain Lexer built from these patterns. Syntax layer: imports chevrotain only.
 import { createToken, Lexer, type TokenType } from "chevrotain";
 
 export const Identifier = createToken({ name: "Identifier", pattern: /[A-Za-z_][A-Za-z0-9_]*/, label: "a name" });
@@ -67,11 +69,6 @@ export const ALL_TOKENS: TokenType[] = [
   Identifier,
 ];
 
-export const spwLexer = new Lexer(ALL_TOKENS, {
-  positionTracking: "full",
-  ensureOptimizations: false,
-  recoveryEnabled: true,
-});
 
 export function isKeyword(word: string): word is Keyword {
   return (KEYWORDS as readonly string[]).includes(word);

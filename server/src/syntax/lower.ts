@@ -4,7 +4,7 @@
 import type { CstElement, CstNode, IToken } from "chevrotain";
 import { diag, type Diagnostic } from "../base/diagnostics";
 import type { Span } from "../base/text";
-import type { BondSpec, Expr, ModelBlock, NameRef, SpwFile, Statement } from "./ast";
+import type { BondSpec, Expr, NameRef, Statement } from "./ast";
 
 type Children = Record<string, CstElement[] | undefined>;
 
@@ -399,53 +399,21 @@ const STATEMENT_RULES = [
   "junk",
 ];
 
-export function lowerFile(cst: CstNode, text: string): { file: SpwFile; diagnostics: Diagnostic[] } {
+/**
+ * Lowers one statement piece (parser.ts `piece`): its statements and stray tokens in source order,
+ * and one diagnostic per run of stray tokens on a line. Spans are offsets into `text`, the piece's
+ * own text (parse.ts moves them to their place in the file).
+ */
+export function lowerPiece(cst: CstNode, text: string): { statements: Statement[]; diagnostics: Diagnostic[] } {
   const diagnostics: Diagnostic[] = [];
-  const models: ModelBlock[] = [];
   const c = cst.children as Children;
-  for (const m of nodes(c, "modelBlock")) {
-    const mc = m.children as Children;
-    const span = nodeSpan(m);
-    const kw = tokens(mc, "Kw_model")[0];
-    if (!span || !kw) continue;
-    const nameTok = tokens(mc, "StringLiteral")[0];
-    const name: NameRef = nameTok
-      ? { name: nameTok.image.slice(1, -1), span: tokenSpan(nameTok) }
-      : { name: "", span: tokenSpan(kw) };
-    const statements = byOffset(
-      STATEMENT_RULES.flatMap((r) => nodes(mc, r))
-        .map((s) => lowerStatement(s, text))
-        .filter((s): s is Statement => s !== undefined),
-    );
-    reportJunk(statements, text, diagnostics);
-    const close = tokens(mc, "RBrace")[0];
-    models.push({
-      kind: "model",
-      span,
-      keywordSpan: tokenSpan(kw),
-      name,
-      statements,
-      ...(close ? { closeSpan: tokenSpan(close) } : {}),
-    });
-  }
-  const junk = nodes(c, "topJunk")
-    .map((j) => nodeSpan(j))
-    .filter((x): x is Span => x !== null);
-  const runs: Span[] = [];
-  for (const span of junk) {
-    const last = runs[runs.length - 1];
-    if (last && !/[\r\n]/.test(text.slice(last.end, span.start))) runs[runs.length - 1] = { start: last.start, end: span.end };
-    else runs.push(span);
-  }
-  for (const span of runs.slice(0, 20))
-    diagnostics.push(
-      diag(
-        "spw-syntax",
-        span,
-        `Unexpected '${text.slice(span.start, span.end)}' outside the model block: every statement goes inside model "name" { ... }.`,
-      ),
-    );
-  return { file: { models, span: { start: 0, end: text.length } }, diagnostics };
+  const statements = byOffset(
+    STATEMENT_RULES.flatMap((r) => nodes(c, r))
+      .map((s) => lowerStatement(s, text))
+      .filter((s): s is Statement => s !== undefined),
+  );
+  reportJunk(statements, text, diagnostics);
+  return { statements, diagnostics };
 }
 
 const STATEMENT_WORDS = "spin, convention, lattice, let, exchange, anisotropy, g, field, cluster, probe, expect";
@@ -469,7 +437,8 @@ function reportJunk(statements: Statement[], text: string, diagnostics: Diagnost
     if (run && !/[\r\n]/.test(text.slice(run.end, s.span.start))) run = { start: run.start, end: s.span.end };
     else {
       flush();
-      run = s.span;
+      // A span of its own: the statement's span moves with the tree (parse.ts), the diagnostic's not.
+      run = { start: s.span.start, end: s.span.end };
     }
   }
   flush();

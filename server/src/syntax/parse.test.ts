@@ -75,4 +75,42 @@ describe("parseSpw", () => {
       }
     }
   });
+
+  it("names the next statement keyword when a statement stops short, at the end of its line", () => {
+    const text = 'model "m" {\n  let J1 =\n  let J2 = 1 K\n}\n';
+    const errors = parseSpw(text).diagnostics.filter((d) => d.code === "spw-syntax");
+    expect(errors.map((d) => d.message)).toEqual(["Expected a value here (a number with its unit, a parameter name, or an expression in parentheses), found 'let'."]);
+    // Where the value is missing: on the '=' that ends line 2, not on the next line's 'let'.
+    expect(text.slice(errors[0]?.span.start, errors[0]?.span.end)).toBe("=");
+    const sameLine = 'model "m" { let a = let b = 1 }';
+    const e = parseSpw(sameLine).diagnostics[0];
+    expect(e?.span.start).toBe(sameLine.indexOf("let b"));
+  });
+
+  it("reads a header without quotes or with strays, keeps the block, and reports each once", () => {
+    const unquoted = parseSpw('model chain {\n  lattice chain\n}\n');
+    expect(unquoted.ast.models[0]?.name.name).toBe("chain");
+    expect(unquoted.ast.models[0]?.statements.map((s) => s.kind)).toEqual(["latticePreset"]);
+    expect(unquoted.diagnostics.map((d) => d.message)).toEqual(['The model name goes in quotes: model "chain" { ... }.']);
+    const stray = parseSpw('model on "t" {\n  lattice chain\n}\n');
+    expect(stray.ast.models[0]?.name.name).toBe("t");
+    expect(stray.diagnostics.map((d) => d.message)).toEqual(["Unexpected 'on' in the model header, which reads model \"name\" {."]);
+  });
+
+  it("takes a '}' with more code after it on its line as a stray, not the end of the block", () => {
+    const r = parseSpw('model "m" {\n  lattice chain\n  let J = 1 K }x\n  cluster 8 periodic\n}\n');
+    expect(r.ast.models[0]?.statements.map((s) => s.kind)).toEqual(["latticePreset", "let", "junk", "junk", "cluster"]);
+    expect(r.ast.models[0]?.closeSpan).toBeDefined();
+    const oneLine = parseSpw('model "m" { lattice chain }');
+    expect(oneLine.diagnostics).toEqual([]);
+  });
+
+  it("reports an unclosed block once at the end of the file, and a custom lattice left open at the next statement", () => {
+    const text = 'model "m" {\n  lattice chain\n  spin 1/';
+    const errors = parseSpw(text).diagnostics;
+    expect(errors.length).toBe(1);
+    const open = parseSpw('model "m" {\n  lattice {\n    vector a1 = (1, 0, 0)\n    site A = (0, 0, 0) spin 1\n  let J = 1 K\n}\n');
+    expect(open.ast.models[0]?.statements.map((s) => s.kind)).toEqual(["latticeCustom", "let"]);
+    expect(open.diagnostics.map((d) => d.message)).toEqual(["Expected '}' here, found 'let'. Close the lattice block with '}'."]);
+  });
 });

@@ -1,6 +1,7 @@
-// The .spw grammar as a chevrotain CstParser with error recovery. One parser instance is reused
-// (reset through `parser.input`). Semantics live in lower.ts, not here. Syntax layer.
-import { CstParser, EOF, type CstNode, type IRecognitionException, type IToken, type TokenType } from "chevrotain";
+// The .spw statement grammar as a chevrotain CstParser with error recovery. One parser instance is
+// reused (reset through `parser.input`) for every statement piece; the block structure around the
+// pieces is read by parse.ts. Semantics live in lower.ts, not here. Syntax layer.
+import { CstParser, type TokenType } from "chevrotain";
 import {
   ALL_TOKENS,
   Arrow,
@@ -20,13 +21,12 @@ import {
   RParen,
   Slash,
   Star,
-  StringLiteral,
   WhiteSpace,
   Comment,
 } from "./lexer";
 
 /** Tokens that start a statement inside a model block. */
-const STATEMENT_STARTS: TokenType[] = [
+export const STATEMENT_STARTS: TokenType[] = [
   Kw.spin,
   Kw.convention,
   Kw.lattice,
@@ -40,11 +40,11 @@ const STATEMENT_STARTS: TokenType[] = [
   Kw.expect,
 ];
 
-/** Tokens that cannot start a statement: consumed one at a time as "junk" so recovery goes on. */
-const JUNK_TOKENS: TokenType[] = ALL_TOKENS.filter(
-  (t) => t !== WhiteSpace && t !== Comment && t !== RBrace && t !== Kw.model && !STATEMENT_STARTS.includes(t),
-);
-const TOP_JUNK_TOKENS: TokenType[] = ALL_TOKENS.filter((t) => t !== WhiteSpace && t !== Comment && t !== Kw.model);
+/**
+ * Tokens that cannot start a statement: consumed one at a time as "junk" so recovery goes on. Inside
+ * a statement piece (see parse.ts) that includes a stray '}' or 'model'.
+ */
+const JUNK_TOKENS: TokenType[] = ALL_TOKENS.filter((t) => t !== WhiteSpace && t !== Comment && !STATEMENT_STARTS.includes(t));
 
 class SpwParser extends CstParser {
   constructor() {
@@ -52,20 +52,12 @@ class SpwParser extends CstParser {
     this.performSelfAnalysis();
   }
 
-  public file = this.RULE("file", () => {
-    this.MANY(() => {
-      this.OR([{ ALT: () => this.SUBRULE(this.modelBlock) }, { ALT: () => this.SUBRULE(this.topJunk) }]);
-    });
-  });
-
-  private topJunk = this.RULE("topJunk", () => {
-    this.OR(TOP_JUNK_TOKENS.map((t) => ({ ALT: () => this.CONSUME(t) })));
-  });
-
-  private modelBlock = this.RULE("modelBlock", () => {
-    this.CONSUME(Kw.model);
-    this.CONSUME(StringLiteral);
-    this.CONSUME(LBrace);
+  /**
+   * One statement piece of a model block: a statement and whatever stray tokens follow it before
+   * the next statement keyword. parse.ts cuts the block into such pieces and parses each alone, so
+   * that an edit reparses only the piece it touches.
+   */
+  public piece = this.RULE("piece", () => {
     this.MANY(() => {
       this.OR([
         { ALT: () => this.SUBRULE(this.spinStmt) },
@@ -82,7 +74,6 @@ class SpwParser extends CstParser {
         { ALT: () => this.SUBRULE(this.junk) },
       ]);
     });
-    this.CONSUME(RBrace);
   });
 
   private junk = this.RULE("junk", () => {
@@ -379,13 +370,3 @@ class SpwParser extends CstParser {
 
 /** The single parser instance. */
 export const spwParser = new SpwParser();
-
-export interface ParseOutput {
-  readonly cst: CstNode;
-  readonly tokens: IToken[];
-  readonly comments: IToken[];
-  readonly lexErrors: { offset: number; length: number; message: string }[];
-  readonly parseErrors: IRecognitionException[];
-}
-
-export { EOF };
