@@ -3,7 +3,7 @@
 // Analysis layer: no I/O, no editor types.
 import type { Diagnostic } from "../base/diagnostics";
 import { LineIndex } from "../base/text";
-import { buildModel } from "../model/build";
+import { BuildMemo, buildModel } from "../model/build";
 import type { SpinModel } from "../model/model";
 import { parseSpw, type ParsedFile } from "../syntax/parse";
 import { analyzePhysics, type AnalysisOptions, type PhysicsSummary } from "./physics";
@@ -18,11 +18,22 @@ export interface DocumentAnalysis {
   readonly physics: PhysicsSummary | null;
   /** All diagnostics, sorted by position. */
   readonly diagnostics: readonly Diagnostic[];
+  /** Parameter evaluations for the next version's build (see BuildMemo). */
+  readonly buildMemo: BuildMemo;
 }
 
-export function analyzeDocument(text: string, options: AnalysisOptions = {}): DocumentAnalysis {
-  const parsed = parseSpw(text);
-  const built = buildModel(parsed.ast, text);
+export interface DocumentOptions extends AnalysisOptions {
+  /**
+   * The analysis of the version before, for an incremental parse. It is consumed (its trees move
+   * into the new analysis; see parseSpw) and must not be read afterwards.
+   */
+  readonly previous?: DocumentAnalysis | null;
+}
+
+export function analyzeDocument(text: string, options: DocumentOptions = {}): DocumentAnalysis {
+  const parsed = parseSpw(text, options.previous?.parsed);
+  const buildMemo = options.previous?.buildMemo ?? new BuildMemo();
+  const built = buildModel(parsed.ast, text, buildMemo);
   const diagnostics: Diagnostic[] = [...parsed.diagnostics, ...built.diagnostics];
   let physics: PhysicsSummary | null = null;
   if (built.model) {
@@ -31,5 +42,5 @@ export function analyzeDocument(text: string, options: AnalysisOptions = {}): Do
     diagnostics.push(...result.diagnostics);
   }
   diagnostics.sort((a, b) => a.span.start - b.span.start || a.span.end - b.span.end);
-  return { text, lines: new LineIndex(text), parsed, model: built.model, physics, diagnostics };
+  return { text, lines: new LineIndex(text), parsed, model: built.model, physics, diagnostics, buildMemo };
 }

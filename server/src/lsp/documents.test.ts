@@ -23,6 +23,26 @@ describe("AnalysisCache", () => {
     expect(second.resultId).not.toBe(first.resultId);
   });
 
+  it("analyses each new version from the one before, with the result of a fresh analysis", () => {
+    const seen: (string | null)[] = [];
+    const cache = new AnalysisCache(
+      () => undefined,
+      (text, previous) => {
+        seen.push(previous ? previous.text : null);
+        return analyzeDocument(text, { previous });
+      },
+    );
+    const v1 = 'model "a" {\n  lattice chain\n  let J = 1 K\n  exchange heisenberg(J) on shell 1\n}\n';
+    const v2 = v1.replace("1 K", "12 K");
+    cache.get({ uri: "file:///a.spw", version: 1, getText: () => v1 });
+    const second = cache.get({ uri: "file:///a.spw", version: 2, getText: () => v2 });
+    expect(seen).toEqual([null, v1]);
+    const fresh = analyzeDocument(v2);
+    expect(second.analysis?.parsed.ast).toEqual(fresh.parsed.ast);
+    expect(second.analysis?.diagnostics).toEqual(fresh.diagnostics);
+    expect(second.analysis?.model?.exchanges[0]?.scaleMeV).toBeCloseTo(fresh.model?.exchanges[0]?.scaleMeV ?? NaN, 12);
+  });
+
   it("reports a failing analysis and answers with no analysis instead of throwing", () => {
     const errors: string[] = [];
     const cache = new AnalysisCache(

@@ -1,5 +1,5 @@
-// The analysis cache of the language server, keyed by document uri and version, and the
-// debouncer that analyses after a pause in typing and drops work for versions that are no
+// The analysis cache of the language server, keyed by document uri and version (each new version
+// is parsed incrementally from the one before, which it replaces), and the debouncer that analyses after a pause in typing and drops work for versions that are no
 // longer current. LSP layer (no vscode-languageserver import needed: plain TypeScript).
 import { analyzeDocument, type DocumentAnalysis } from "../analysis/analyze";
 
@@ -26,7 +26,8 @@ export class AnalysisCache {
 
   constructor(
     private readonly onError: (uri: string, error: unknown) => void,
-    private readonly analyze: (text: string) => DocumentAnalysis = analyzeDocument,
+    /** Analyses a text; `previous` is the analysis of an earlier version, which it consumes. */
+    private readonly analyze: (text: string, previous: DocumentAnalysis | null) => DocumentAnalysis = (text, previous) => analyzeDocument(text, { previous }),
   ) {}
 
   /** The analysis of exactly this version, computed now if it is not cached. */
@@ -35,8 +36,10 @@ export class AnalysisCache {
     if (cached && cached.version === doc.version) return cached;
     const started = performance.now();
     let analysis: DocumentAnalysis | null = null;
+    // The cached analysis is replaced below, so the new one may take over its trees.
+    const previous = cached && cached.version < doc.version ? cached.analysis : null;
     try {
-      analysis = this.analyze(doc.getText());
+      analysis = this.analyze(doc.getText(), previous);
     } catch (error) {
       this.onError(doc.uri, error);
     }

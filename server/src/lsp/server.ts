@@ -86,7 +86,7 @@ export function startServer(connection: Connection, runtime: ServerRuntime = {})
   const running = new Map<string, AbortController>();
   const cache = new AnalysisCache(
     (uri, error) => logError(`analysis of ${uri}`, error),
-    (text) => analyzeDocument(text, { exact: (c) => calibrations.get(c.key) ?? null }),
+    (text, previous) => analyzeDocument(text, { previous, exact: (c) => calibrations.get(c.key) ?? null }),
   );
   const debouncer = new Debouncer(DEBOUNCE_MS);
   let settings: ServerSettings = DEFAULT_SERVER_SETTINGS;

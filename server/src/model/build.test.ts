@@ -87,6 +87,12 @@ describe("values and matrices", () => {
     expect(c.value.cluster.fields[0]?.[0]).toBe(0);
   });
 
+  it("a parameter may be named like a JavaScript object member (toString, constructor)", () => {
+    const a = analyzeDocument('model "m" {\n  convention antiferro-positive\n  lattice chain\n  let toString = 2 meV\n  let constructor = 0.5 * toString\n  exchange heisenberg(constructor) on shell 1\n}\n');
+    expect(a.diagnostics.filter((d) => d.severity === "error")).toEqual([]);
+    expect(a.model?.exchanges[0]?.scaleMeV).toBeCloseTo(1, 12);
+  });
+
   it("field in mT and G", () => {
     expect(model(`lattice chain\n field 350 mT`).field?.magnitudeT).toBeCloseTo(0.35, 14);
     expect(model(`lattice chain\n field 3500 G`).field?.magnitudeT).toBeCloseTo(0.35, 14);

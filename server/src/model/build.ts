@@ -41,7 +41,7 @@ import {
   type SpinModel,
   type SymbolOccurrence,
 } from "./model";
-import { CONSTANTS, UNIT_WORDS, ENERGY_UNIT_NAMES } from "./units";
+import { UNIT_WORDS, ENERGY_UNIT_NAMES, constantNamed } from "./units";
 import { isKeyword } from "../syntax/lexer";
 
 export interface BuildResult {
@@ -51,7 +51,39 @@ export interface BuildResult {
 
 const DEFAULT_G = 2;
 
-export function buildModel(file: SpwFile, text = ""): BuildResult {
+/** A diagnostic with its spans copied and moved by `delta` (never sharing a span object). */
+function copyDiagnostic(d: Diagnostic, delta: number): Diagnostic {
+  const span = { start: d.span.start + delta, end: d.span.end + delta };
+  return d.related
+    ? { ...d, span, related: d.related.map((r) => ({ span: { start: r.span.start + delta, end: r.span.end + delta }, message: r.message })) }
+    : { ...d, span };
+}
+
+type LetStatement = Extract<Statement, { kind: "let" }>;
+
+/** What evaluating one parameter did, in order: names it read, references, diagnostics. */
+type EvalEvent =
+  | { readonly kind: "lookup"; readonly name: string; readonly value: Value | null | undefined }
+  | { readonly kind: "symbol"; readonly occurrence: SymbolOccurrence }
+  | { readonly kind: "diagnostic"; readonly diagnostic: Diagnostic; readonly statementStart: number };
+
+interface ParamEvaluation {
+  readonly parameter: Parameter;
+  readonly events: readonly EvalEvent[];
+}
+
+/**
+ * Parameter evaluations kept from one build to the next, keyed by the `let` statement's tree
+ * (an incremental parse hands over the same tree when the statement is unchanged, its spans
+ * moved). A kept evaluation is replayed only when every parameter it read has been evaluated in
+ * this build already, to the very same value; otherwise the parameter is evaluated afresh. A test
+ * holds builds with a memo to fresh builds over random edit chains.
+ */
+export class BuildMemo {
+  readonly parameters = new WeakMap<LetStatement, ParamEvaluation>();
+}
+
+export function buildModel(file: SpwFile, text = "", memo: BuildMemo | null = null): BuildResult {
   const diagnostics: Diagnostic[] = [];
   const first = file.models[0];
   if (!first) {
@@ -69,7 +101,7 @@ export function buildModel(file: SpwFile, text = ""): BuildResult {
       diag("spw-statement-duplicate", extra.keywordSpan, "A .spw file holds one model; move this one into a file of its own."),
     );
   }
-  const builder = new ModelBuilder(first, diagnostics);
+  const builder = new ModelBuilder(first, diagnostics, memo);
   return { model: builder.build(), diagnostics };
 }
 
@@ -81,9 +113,13 @@ class ModelBuilder {
   private readonly siteIndex = new Map<string, number>();
   private lattice: Lattice | null = null;
 
+  /** The events of the parameters being evaluated (innermost last), for the memo. */
+  private readonly recording: EvalEvent[][] = [];
+
   constructor(
     private readonly block: ModelBlock,
     private readonly diagnostics: Diagnostic[],
+    private readonly memo: BuildMemo | null = null,
   ) {}
 
   private report(d: Diagnostic): void {
@@ -145,7 +181,7 @@ class ModelBuilder {
         );
         continue;
       }
-      if (CONSTANTS[name]) {
+      if (constantNamed(name)) {
         this.report(diag("spw-name-duplicate", s.name.span, `'${name}' is a built-in constant; choose another name.`));
         continue;
       }
@@ -163,15 +199,54 @@ class ModelBuilder {
     }
   }
 
+  /** How expressions reach parameters, diagnostics and the symbol list (one for the whole build). */
+  private readonly evalContext: EvalContext = {
+    lookup: (name) => {
+      const value = this.paramStatements.has(name) ? (this.parameter(name)?.value ?? null) : undefined;
+      this.recording[this.recording.length - 1]?.push({ kind: "lookup", name, value });
+      return value;
+    },
+    report: (d) => {
+      this.report(d);
+      const frame = this.recording[this.recording.length - 1];
+      if (frame) {
+        // Kept as a copy: a diagnostic's span may be computed, not a span of the tree that moves.
+        const statement = this.paramStatements.get(this.evaluatingOrder[this.evaluatingOrder.length - 1] ?? "");
+        frame.push({ kind: "diagnostic", diagnostic: copyDiagnostic(d, 0), statementStart: statement?.span.start ?? 0 });
+      }
+    },
+    reference: (name, span) => {
+      // The span is the name's own span in the tree, which moves with it.
+      const occurrence: SymbolOccurrence = { name, kind: "parameter", span, isDefinition: false };
+      this.symbols.push(occurrence);
+      this.recording[this.recording.length - 1]?.push({ kind: "symbol", occurrence });
+    },
+  };
+
+  /** The parameters being evaluated, innermost last. */
+  private readonly evaluatingOrder: string[] = [];
+
+  /** A kept evaluation applies when every name it read has the same value in this build already. */
+  private canReplay(e: ParamEvaluation): boolean {
+    for (const ev of e.events) {
+      if (ev.kind !== "lookup") continue;
+      if (this.paramStatements.has(ev.name)) {
+        const p = this.params.get(ev.name);
+        if (!p || p.value !== ev.value) return false;
+      } else if (ev.value !== undefined) return false;
+    }
+    return true;
+  }
+
+  private replay(e: ParamEvaluation, s: LetStatement): void {
+    for (const ev of e.events) {
+      if (ev.kind === "symbol") this.symbols.push(ev.occurrence);
+      else if (ev.kind === "diagnostic") this.report(copyDiagnostic(ev.diagnostic, s.span.start - ev.statementStart));
+    }
+  }
+
   private context(): EvalContext {
-    return {
-      lookup: (name) => {
-        if (!this.paramStatements.has(name)) return undefined;
-        return this.parameter(name)?.value ?? null;
-      },
-      report: (d) => this.report(d),
-      reference: (name, span) => this.symbols.push({ name, kind: "parameter", span, isDefinition: false }),
-    };
+    return this.evalContext;
   }
 
   private parameter(name: string): Parameter | null {
@@ -186,11 +261,23 @@ class ModelBuilder {
       );
       return null;
     }
+    const kept = this.memo?.parameters.get(s);
+    if (kept && this.canReplay(kept)) {
+      this.replay(kept, s);
+      this.params.set(name, kept.parameter);
+      return kept.parameter;
+    }
     this.evaluating.add(name);
+    this.evaluatingOrder.push(name);
+    const events: EvalEvent[] = [];
+    this.recording.push(events);
     const value = evaluate(s.value, this.context());
+    this.recording.pop();
+    this.evaluatingOrder.pop();
     this.evaluating.delete(name);
     const p: Parameter = { name, nameSpan: s.name.span, statementSpan: s.span, valueSpan: s.value.span, value };
     this.params.set(name, p);
+    this.memo?.parameters.set(s, { parameter: p, events });
     return p;
   }
 

@@ -5,7 +5,7 @@
 import { diag, type Diagnostic } from "../base/diagnostics";
 import type { Span } from "../base/text";
 import type { Expr } from "../syntax/ast";
-import { CONSTANTS, UNITS, unitKey, ENERGY_UNIT_NAMES, FIELD_UNIT_NAMES } from "./units";
+import { unitKey, ENERGY_UNIT_NAMES, FIELD_UNIT_NAMES, unitInfo, constantNamed } from "./units";
 
 /** A value with one dimension for all its components: meV^energy T^field. */
 export interface Value {
@@ -24,8 +24,11 @@ export interface EvalContext {
   reference?(name: string, span: Span): void;
 }
 
+/** The shape of every scalar (shared: values are never mutated). */
+const SCALAR_SHAPE: readonly number[] = [];
+
 export function scalar(value: number, energy = 0, field = 0): Value {
-  return { shape: [], data: [value], energy, field };
+  return { shape: SCALAR_SHAPE, data: [value], energy, field };
 }
 
 export function isScalarLike(v: Value): boolean {
@@ -49,9 +52,14 @@ export function sameDimension(a: Value, b: Value): boolean {
 
 const MAX_MAGNITUDE = 1e100;
 
+function outOfRange(data: readonly number[]): boolean {
+  for (const x of data) if (!Number.isFinite(x) || Math.abs(x) > MAX_MAGNITUDE) return true;
+  return false;
+}
+
 export function evaluate(e: Expr, ctx: EvalContext): Value | null {
   const v = evalInner(e, ctx);
-  if (v && v.data.some((x) => !Number.isFinite(x) || Math.abs(x) > MAX_MAGNITUDE)) {
+  if (v && outOfRange(v.data)) {
     ctx.report(diag("spw-value-invalid", e.span, "This value is not a finite number (overflow or division by zero); check the expression."));
     return null;
   }
@@ -69,7 +77,7 @@ function evalInner(e: Expr, ctx: EvalContext): Value | null {
       }
       if (!e.unit) return scalar(e.value);
       const key = unitKey(e.unit.name, e.unit.power);
-      const unit = UNITS[key];
+      const unit = unitInfo(key);
       if (!unit) {
         ctx.report(
           diag(
@@ -84,11 +92,11 @@ function evalInner(e: Expr, ctx: EvalContext): Value | null {
       return scalar(e.value * unit.toCanonical, unit.dimension === "energy" ? 1 : 0, unit.dimension === "field" ? 1 : 0);
     }
     case "name": {
-      const constant = CONSTANTS[e.name];
+      const constant = constantNamed(e.name);
       if (constant) return scalar(constant.value, constant.energy, constant.field);
       const found = ctx.lookup(e.name, e.span);
       if (found === undefined) {
-        const unit = UNITS[e.name];
+        const unit = unitInfo(e.name);
         const hint = unit ? ` A unit follows a number: write 1 ${e.name}.` : " Define it first with `let " + e.name + " = ...`.";
         ctx.report(diag("spw-name-unknown", e.span, `Unknown name '${e.name}'.${hint}`, { data: { name: e.name } }));
         return null;
@@ -152,7 +160,8 @@ function evalInner(e: Expr, ctx: EvalContext): Value | null {
 }
 
 function asScalarValue(v: Value): Value {
-  return isScalarLike(v) ? { shape: [], data: [v.data[0] ?? 0], energy: v.energy, field: v.field } : v;
+  if (v.shape.length === 0) return v;
+  return isScalarLike(v) ? { shape: SCALAR_SHAPE, data: [v.data[0] ?? 0], energy: v.energy, field: v.field } : v;
 }
 
 function binary(op: "+" | "-" | "*" | "/" | "^", a0: Value, b0: Value, span: Span, ctx: EvalContext): Value | null {
@@ -202,6 +211,7 @@ function binary(op: "+" | "-" | "*" | "/" | "^", a0: Value, b0: Value, span: Spa
       ctx.report(diag("spw-value-invalid", span, "Division by zero."));
       return null;
     }
+    if (a.shape.length === 0) return scalar(op === "*" ? (a.data[0] ?? 0) * s : (a.data[0] ?? 0) / s, energy, field);
     return { shape: a.shape, data: a.data.map((x) => (op === "*" ? x * s : x / s)), energy, field };
   }
   if (a.shape.length === 0 && op === "*") {

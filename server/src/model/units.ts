@@ -96,7 +96,7 @@ export const UNIT_WORDS = new Set(["meV", "ueV", "eV", "joule", "K", "mK", "MHz"
 
 /** Converts an energy in meV to the given energy unit. */
 export function energyFromMeV(valueMeV: number, unit: string): number {
-  const u = UNITS[unit];
+  const u = UNIT_MAP.get(unit);
   if (!u || u.dimension !== "energy") throw new Error(`not an energy unit: ${unit}`);
   return valueMeV / u.toCanonical;
 }
@@ -106,3 +106,20 @@ export const CONSTANTS: Readonly<Record<string, { value: number; energy: number;
   pi: { value: Math.PI, energy: 0, field: 0, label: "π" },
   muB: { value: MU_B_MEV_PER_T, energy: 1, field: -1, label: "Bohr magneton (meV/T, CODATA 2018)" },
 };
+
+const UNIT_MAP = new Map(Object.entries(UNITS));
+const CONSTANT_MAP = new Map(Object.entries(CONSTANTS));
+
+/**
+ * The unit with this key, if any. A Map, not a property lookup: a name typed in a file such as
+ * `constructor` must not find an Object.prototype member, and lookups by text cut from a file
+ * stay fast.
+ */
+export function unitInfo(key: string): UnitInfo | undefined {
+  return UNIT_MAP.get(key);
+}
+
+/** The built-in constant with this name, if any (see unitInfo for why a Map). */
+export function constantNamed(name: string): (typeof CONSTANTS)[string] | undefined {
+  return CONSTANT_MAP.get(name);
+}

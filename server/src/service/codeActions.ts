@@ -6,7 +6,7 @@ import type { DocumentAnalysis } from "../analysis/analyze";
 import type { Diagnostic } from "../base/diagnostics";
 import type { Span } from "../base/text";
 import { closest } from "../model/build";
-import { CONSTANTS, ENERGY_UNIT_NAMES, UNITS } from "../model/units";
+import { CONSTANTS, ENERGY_UNIT_NAMES, UNITS, unitInfo } from "../model/units";
 import { statementExprs, walkExpr, type Expr, type Statement } from "../syntax/ast";
 import { firstModel, type TextEdit } from "./common";
 
@@ -216,6 +216,6 @@ function addUnitFixes(a: DocumentAnalysis, d: Diagnostic): CodeAction[] {
   if (!target || target.kind !== "number" || target.unit) return [];
   const end = target.span.end;
   return units
-    .filter((u) => UNITS[u] && (s.kind === "field" ? UNITS[u]?.dimension === "field" : ENERGY_UNIT_NAMES.includes(u)))
+    .filter((u) => unitInfo(u) && (s.kind === "field" ? unitInfo(u)?.dimension === "field" : ENERGY_UNIT_NAMES.includes(u)))
     .map((u, k) => action(d, `Add unit ${u}${where}: ${target.kind === "number" ? target.text : ""} ${u}`, [{ span: { start: end, end }, newText: ` ${u}` }], k === 0));
 }

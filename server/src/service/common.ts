@@ -5,7 +5,7 @@ import type { IToken } from "chevrotain";
 import type { DocumentAnalysis } from "../analysis/analyze";
 import type { Span } from "../base/text";
 import type { SymbolOccurrence } from "../model/model";
-import { UNITS } from "../model/units";
+import { UNITS, unitInfo } from "../model/units";
 import { PRESETS } from "../model/lattice";
 import { statementExprs, walkExpr, type ModelBlock, type NameRef, type Statement } from "../syntax/ast";
 
@@ -29,7 +29,7 @@ export const DEFAULT_SETTINGS: ServiceSettings = { displayUnits: "meV", exactChe
 export const DISPLAY_UNITS = ["meV", "K", "GHz", "THz", "cm^-1", "ueV"] as const;
 
 export function displayUnitOf(settings: ServiceSettings): string {
-  const u = UNITS[settings.displayUnits];
+  const u = unitInfo(settings.displayUnits);
   return u && u.dimension === "energy" ? settings.displayUnits : "meV";
 }
 
@@ -168,7 +168,7 @@ export function formatNumber(x: number, digits = 5): string {
 
 /** An energy in meV expressed in another energy unit (a key of UNITS). */
 export function energyIn(valueMeV: number, unit: string): number {
-  const u = UNITS[unit];
+  const u = unitInfo(unit);
   return u && u.dimension === "energy" ? valueMeV / u.toCanonical : valueMeV;
 }
 

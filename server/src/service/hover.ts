@@ -7,7 +7,7 @@ import type { Span } from "../base/text";
 import { describeBond } from "../model/build";
 import { PRESETS } from "../model/lattice";
 import type { SpinModel } from "../model/model";
-import { CONSTANTS, UNITS, unitKey } from "../model/units";
+import { unitKey, unitInfo, constantNamed } from "../model/units";
 import type { Expr, Statement } from "../syntax/ast";
 import { statementExprs, walkExpr } from "../syntax/ast";
 import { isKeyword } from "../syntax/lexer";
@@ -59,7 +59,7 @@ export function doHover(a: DocumentAnalysis, offset: number): HoverResult | null
     const doc = STATEMENT_WORDS.find((w) => w.word === word)?.summary ?? CLAUSE_WORDS[word];
     if (doc) return { span, markdown: `**${word}**: ${doc}` };
   }
-  const constant = CONSTANTS[word];
+  const constant = constantNamed(word);
   if (constant) return { span, markdown: `**${word}** = ${formatNumber(constant.value, 11)}${constant.energy ? " meV/T" : ""}: ${constant.label}` };
   return null;
 }
@@ -187,7 +187,7 @@ function statementHover(a: DocumentAnalysis, s: Statement, offset: number, span:
   const n = numberAt(s, offset);
   if (n?.unit && s.kind !== "field") {
     const key = unitKey(n.unit.name, n.unit.power);
-    const u = UNITS[key];
+    const u = unitInfo(key);
     if (u) {
       const canonical = n.value * u.toCanonical;
       const text =

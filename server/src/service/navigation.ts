@@ -4,7 +4,7 @@
 import type { DocumentAnalysis } from "../analysis/analyze";
 import type { Span } from "../base/text";
 import { EXCHANGE_KINDS, type SymbolOccurrence } from "../model/model";
-import { CONSTANTS, UNIT_WORDS } from "../model/units";
+import { UNIT_WORDS, constantNamed } from "../model/units";
 import { isKeyword } from "../syntax/lexer";
 import { firstModel, occurrencesOf, symbolAt, type TextEdit } from "./common";
 
@@ -62,7 +62,7 @@ export function renameProblem(a: DocumentAnalysis, symbol: Pick<SymbolOccurrence
   if (!/^[A-Za-z_][A-Za-z0-9_]*$/.test(newName)) return `'${newName}' is not a name: use letters, digits and _, starting with a letter.`;
   if (isKeyword(newName)) return `'${newName}' is a keyword of the format.`;
   if (UNIT_WORDS.has(newName)) return `'${newName}' is a unit; a parameter or site named like a unit would be ambiguous.`;
-  if (CONSTANTS[newName]) return `'${newName}' is a built-in constant.`;
+  if (constantNamed(newName)) return `'${newName}' is a built-in constant.`;
   if (symbol.kind === "parameter" && (EXCHANGE_KINDS as readonly string[]).includes(newName)) return `'${newName}' is an exchange kind.`;
   if (newName === symbol.name) return null;
   const taken = (a.model?.symbols ?? []).some((s) => s.name === newName && s.isDefinition);

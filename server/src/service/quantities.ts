@@ -4,7 +4,7 @@
 import type { DocumentAnalysis } from "../analysis/analyze";
 import type { Value } from "../model/evaluate";
 import type { Parameter, SpinModel } from "../model/model";
-import { MU_B_MEV_PER_T, UNITS, unitKey } from "../model/units";
+import { MU_B_MEV_PER_T, unitKey, unitInfo } from "../model/units";
 import { mulMatVec3, norm3 } from "../physics/linalg3";
 import type { Expr } from "../syntax/ast";
 import { walkExpr } from "../syntax/ast";
@@ -27,7 +27,7 @@ function unitOfExpr(a: DocumentAnalysis, e: Expr, seen: Set<string>): string | n
     if (unit) return;
     if (x.kind === "number" && x.unit) {
       const key = unitKey(x.unit.name, x.unit.power);
-      if (UNITS[key]) unit = key;
+      if (unitInfo(key)) unit = key;
     } else if (x.kind === "name") names.push(x.name);
   });
   if (unit) return unit;
@@ -49,7 +49,7 @@ export function quantityKind(v: Value): QuantityKind {
 
 /** Energy conversions shown for every energy: the written unit first, then meV, K, GHz. */
 export function energyConversions(valueMeV: number, writtenUnit: string | null): string[] {
-  const units = [writtenUnit, "meV", "K", "GHz"].filter((u, k, all): u is string => !!u && UNITS[u]?.dimension === "energy" && all.indexOf(u) === k);
+  const units = [writtenUnit, "meV", "K", "GHz"].filter((u, k, all): u is string => !!u && unitInfo(u)?.dimension === "energy" && all.indexOf(u) === k);
   return units.map((u) => energyText(valueMeV, u));
 }
 
@@ -64,7 +64,7 @@ export function parameterValueText(a: DocumentAnalysis, p: Parameter): string | 
     if (kind === "energy") return energyConversions(x, writtenUnitOf(a, p.name)).join(" = ");
     if (kind === "field") {
       const unit = writtenUnitOf(a, p.name);
-      const u = unit ? UNITS[unit] : undefined;
+      const u = unit ? unitInfo(unit) : undefined;
       return u && u.dimension === "field" && unit !== "T" ? `${formatNumber(x / u.toCanonical)} ${unit} = ${formatNumber(x)} T` : `${formatNumber(x)} T`;
     }
     if (kind === "dimensionless") return formatNumber(x);

@@ -5,7 +5,7 @@ import type { DocumentAnalysis } from "../analysis/analyze";
 import type { Span } from "../base/text";
 import { EXCHANGE_KINDS } from "../model/model";
 import { PRESETS } from "../model/lattice";
-import { CONSTANTS } from "../model/units";
+import { constantNamed } from "../model/units";
 import { statementExprs, walkExpr } from "../syntax/ast";
 import { firstModel } from "./common";
 
@@ -55,7 +55,7 @@ export function semanticTokens(a: DocumentAnalysis): SemanticToken[] {
     }
     for (const e of statementExprs(s))
       walkExpr(e, (x) => {
-        if (x.kind === "name" && CONSTANTS[x.name]) add(x.span, "variable", ["readonly", "defaultLibrary"]);
+        if (x.kind === "name" && constantNamed(x.name)) add(x.span, "variable", ["readonly", "defaultLibrary"]);
         if (x.kind === "number" && x.unit) add(x.unit.span, "type", ["defaultLibrary"]);
       });
   }

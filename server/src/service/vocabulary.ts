@@ -1,7 +1,7 @@
 // The words of the .spw format with one-line explanations: statements, exchange kinds with their
 // signatures, conventions, symmetry claims and units. Shared by hover, completion and signature
 // help so that the three always say the same. Service layer.
-import { UNITS } from "../model/units";
+import { unitInfo } from "../model/units";
 
 export interface StatementWord {
   readonly word: string;
@@ -143,7 +143,7 @@ export const SYMMETRY_CLAIMS: Readonly<Record<string, string>> = {
 
 /** What a unit means, for hovers and completion details. */
 export function unitDescription(key: string): string | null {
-  const u = UNITS[key];
+  const u = unitInfo(key);
   if (!u) return null;
   if (u.dimension === "field") return `${u.label}: magnetic field, 1 ${u.label} = ${u.toCanonical} T`;
   const meaning: Record<string, string> = {
