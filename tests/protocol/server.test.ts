@@ -91,6 +91,29 @@ describe("language server over stdio (pull diagnostics)", () => {
     expect(again).toMatchObject({ kind: "unchanged", resultId: report.resultId });
   });
 
+  it("answers 'unchanged' after an edit that leaves the diagnostics as they were, and the full list after one that does not", async () => {
+    const uri = "file:///workspace/chain-edits.spw";
+    const c = server.connection;
+    await c.sendNotification("textDocument/didOpen", { textDocument: { uri, languageId: "spw", version: 1, text: CHAIN } });
+    const first = (await c.sendRequest("textDocument/diagnostic", { textDocument: { uri } })) as FullDocumentDiagnosticReport;
+    expect(first.kind).toBe("full");
+    // A space typed at the end of the first line moves nothing the diagnostics point at.
+    const lineEnd = { line: 0, character: (CHAIN.split("\n")[0] ?? "").length };
+    await c.sendNotification("textDocument/didChange", { textDocument: { uri, version: 2 }, contentChanges: [{ range: { start: lineEnd, end: lineEnd }, text: " " }] });
+    const second = await c.sendRequest("textDocument/diagnostic", { textDocument: { uri }, previousResultId: first.resultId });
+    expect(second).toEqual({ kind: "unchanged", resultId: first.resultId });
+    // A new line with an unknown unit: a new diagnostic, a new result id, and lines below moved.
+    await c.sendNotification("textDocument/didChange", {
+      textDocument: { uri, version: 3 },
+      contentChanges: [{ range: { start: { line: 2, character: 0 }, end: { line: 2, character: 0 } }, text: "  let Jx = 2 furlong\n" }],
+    });
+    const third = (await c.sendRequest("textDocument/diagnostic", { textDocument: { uri }, previousResultId: first.resultId })) as FullDocumentDiagnosticReport;
+    expect(third.kind).toBe("full");
+    expect(third.resultId).not.toBe(first.resultId);
+    expect(third.items.map((d) => d.code)).toContain("spw-unit-unknown");
+    await c.sendNotification("textDocument/didClose", { textDocument: { uri } });
+  });
+
   it("hovers the field with the Zeeman energy", async () => {
     const hover = (await server.connection.sendRequest("textDocument/hover", {
       textDocument: { uri: URI },

@@ -6,7 +6,7 @@ import { LineIndex } from "../base/text";
 import { BuildMemo, buildModel } from "../model/build";
 import type { SpinModel } from "../model/model";
 import { parseSpw, type ParsedFile } from "../syntax/parse";
-import { analyzePhysics, type AnalysisOptions, type PhysicsSummary } from "./physics";
+import { analyzePhysicsKept, PhysicsMemo, type AnalysisOptions, type PhysicsSummary } from "./physics";
 
 export interface DocumentAnalysis {
   readonly text: string;
@@ -18,8 +18,13 @@ export interface DocumentAnalysis {
   readonly physics: PhysicsSummary | null;
   /** All diagnostics, sorted by position. */
   readonly diagnostics: readonly Diagnostic[];
-  /** Parameter evaluations for the next version's build (see BuildMemo). */
-  readonly buildMemo: BuildMemo;
+  /** What the next version's analysis may reuse (see BuildMemo and PhysicsMemo). */
+  readonly memo: AnalysisMemo;
+}
+
+export interface AnalysisMemo {
+  readonly build: BuildMemo;
+  readonly physics: PhysicsMemo;
 }
 
 export interface DocumentOptions extends AnalysisOptions {
@@ -32,15 +37,15 @@ export interface DocumentOptions extends AnalysisOptions {
 
 export function analyzeDocument(text: string, options: DocumentOptions = {}): DocumentAnalysis {
   const parsed = parseSpw(text, options.previous?.parsed);
-  const buildMemo = options.previous?.buildMemo ?? new BuildMemo();
-  const built = buildModel(parsed.ast, text, buildMemo);
+  const memo: AnalysisMemo = options.previous?.memo ?? { build: new BuildMemo(), physics: new PhysicsMemo() };
+  const built = buildModel(parsed.ast, text, memo.build);
   const diagnostics: Diagnostic[] = [...parsed.diagnostics, ...built.diagnostics];
   let physics: PhysicsSummary | null = null;
   if (built.model) {
-    const result = analyzePhysics(built.model, options);
+    const result = analyzePhysicsKept(built.model, options, memo.physics);
     physics = result.summary;
     diagnostics.push(...result.diagnostics);
   }
   diagnostics.sort((a, b) => a.span.start - b.span.start || a.span.end - b.span.end);
-  return { text, lines: new LineIndex(text), parsed, model: built.model, physics, diagnostics, buildMemo };
+  return { text, lines: new LineIndex(text), parsed, model: built.model, physics, diagnostics, memo };
 }

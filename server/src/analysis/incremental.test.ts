@@ -1,5 +1,5 @@
-// Analysing a new version with the analysis of the version before (the incremental parse and the
-// kept parameter evaluations) must give what a fresh analysis gives: diagnostics, the semantic
+// Analysing a new version with the analysis of the version before (the incremental parse, the
+// kept parameter evaluations and the kept physics) must give what a fresh analysis gives: diagnostics, the semantic
 // model with its symbols, and the physics summary. Checked over chains of random edits of every
 // project file, and over typing a number digit by digit in a long generated model.
 import { describe, expect, it } from "vitest";
@@ -48,5 +48,20 @@ describe("incremental analysis", () => {
     const d1 = analysis.model?.parameters.get("D1")?.value?.data[0];
     const j1 = analysis.model?.parameters.get("J1")?.value?.data[0];
     expect(d1).toBeCloseTo(0.02 * (j1 ?? NaN), 12);
+  });
+
+  it("keeps the physics of the version before when an edit changes nothing it reads, and only then", () => {
+    const text = generatedModel(300);
+    const first = analyzeDocument(text);
+    // A comment typed at the top of the block moves every statement but changes no number.
+    const commented = text.replace("  spin 1/2", "  # checked\n  spin 1/2");
+    const second = analyzeDocument(commented, { previous: first });
+    expect(second.physics).toBe(first.physics);
+    expectSameAnalysis(second, analyzeDocument(commented));
+    // A new value of J1 changes the couplings: the physics is worked out again.
+    const changed = commented.replace("let J1 = ", "let J1 = 2");
+    const third = analyzeDocument(changed, { previous: second });
+    expect(third.physics).not.toBe(second.physics);
+    expectSameAnalysis(third, analyzeDocument(changed));
   });
 });

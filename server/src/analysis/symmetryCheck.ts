@@ -119,7 +119,9 @@ export function checkExpect(model: SpinModel, sym: SymmetryResult): Diagnostic[]
     .filter((b) => b.kind !== "non-uniform-field" && b.kind !== "transverse-field")
     .map((b) => ({ span: b.span, message: `${kindText(b.kind)} breaks SU(2) here` }));
   const replacement = computed === "u1" ? `u1 about (${(sym.axis ?? [0, 0, 1]).map((x) => Number(x.toFixed(6))).join(", ")})` : computed;
-  const data = { replacement, claimSpan: e.span };
+  // Offsets would change with every edit above the statement: the fix's extent is a length (from
+  // the claim to the end of the statement), so unchanged diagnostics read the same.
+  const data = { replacement, replaceLength: e.span.end - e.claimSpan.start };
   const rank = { su2: 2, u1: 1, none: 0 } as const;
   if (rank[e.claim] > rank[computed]) {
     return [

@@ -17,7 +17,10 @@ export interface Diagnostic {
   readonly related?: readonly RelatedInfo[];
   /** "unnecessary" marks a term that has no effect (rendered faded by editors). */
   readonly tags?: readonly "unnecessary"[];
-  /** Machine-readable data for quick fixes (e.g. the replacement text). */
+  /**
+   * Machine-readable data for quick fixes (e.g. the replacement text). Never an offset into the
+   * file: data must read the same after an edit elsewhere (lengths relative to `span` instead).
+   */
   readonly data?: Readonly<Record<string, unknown>>;
 }
 

@@ -257,10 +257,15 @@ export function startServer(connection: Connection, runtime: ServerRuntime = {})
     guard("close", undefined, (e) => {
       debouncer.cancel(e.document.uri);
       cache.delete(e.document.uri);
+      lastReports.delete(e.document.uri);
       if (!pullDiagnostics) void connection.sendDiagnostics({ uri: e.document.uri, diagnostics: [] });
     }),
   );
 
+  // The last diagnostics sent for each document, as JSON, and their result id: a new version
+  // whose diagnostics read the same (most keystrokes) keeps the id, so a client that sends it back
+  // gets "unchanged" instead of the whole list again.
+  const lastReports = new Map<string, { version: number; json: string; resultId: string; items: ReturnType<typeof toLspDiagnostic>[] }>();
   const emptyReport: DocumentDiagnosticReport = { kind: DocumentDiagnosticReportKind.Full, items: [] };
   connection.languages.diagnostics.on(
     guard("diagnostics", emptyReport, (params): DocumentDiagnosticReport => {
@@ -268,9 +273,16 @@ export function startServer(connection: Connection, runtime: ServerRuntime = {})
       const doc = documents.get(uri);
       if (!doc) return emptyReport;
       const entry = cache.get(doc);
-      if (params.previousResultId === entry.resultId) return { kind: DocumentDiagnosticReportKind.Unchanged, resultId: entry.resultId };
-      const a = entry.analysis;
-      return { kind: DocumentDiagnosticReportKind.Full, resultId: entry.resultId, items: a ? a.diagnostics.map((d) => toLspDiagnostic(a, uri, d, docsUri)) : [] };
+      let last = lastReports.get(uri);
+      if (!last || last.version !== entry.version) {
+        const a = entry.analysis;
+        const items = a ? a.diagnostics.map((d) => toLspDiagnostic(a, uri, d, docsUri)) : [];
+        const json = JSON.stringify(items);
+        last = { version: entry.version, json, resultId: last && last.json === json ? last.resultId : entry.resultId, items };
+        lastReports.set(uri, last);
+      }
+      if (params.previousResultId === last.resultId) return { kind: DocumentDiagnosticReportKind.Unchanged, resultId: last.resultId };
+      return { kind: DocumentDiagnosticReportKind.Full, resultId: last.resultId, items: last.items };
     }),
   );
 

@@ -40,11 +40,6 @@ function action(d: Diagnostic, title: string, edits: TextEdit[], isPreferred = f
   return { title, kind: "quickfix", diagnostic: d, edits, isPreferred };
 }
 
-function asSpan(x: unknown): Span | null {
-  const r = x as { start?: unknown; end?: unknown } | null;
-  return r && typeof r.start === "number" && typeof r.end === "number" ? { start: r.start, end: r.end } : null;
-}
-
 function stringList(x: unknown): string[] {
   return Array.isArray(x) ? x.filter((s): s is string => typeof s === "string") : [];
 }
@@ -98,9 +93,10 @@ function fixesFor(a: DocumentAnalysis, d: Diagnostic): CodeAction[] {
     case "spw-expect-weaker": {
       // The claim and its axis (up to the end of the expect statement) give way to the computed one.
       const replacement = data["replacement"];
-      const statement = asSpan(data["claimSpan"]) ?? statementCovering(a, d.span)?.span;
-      if (typeof replacement !== "string" || !statement || statement.end < d.span.end) return [];
-      return [action(d, `Change the claim to 'expect ${replacement}'`, [{ span: { start: d.span.start, end: statement.end }, newText: replacement }], true)];
+      const length = data["replaceLength"];
+      const end = typeof length === "number" ? d.span.start + length : statementCovering(a, d.span)?.span.end;
+      if (typeof replacement !== "string" || end === undefined || end < d.span.end) return [];
+      return [action(d, `Change the claim to 'expect ${replacement}'`, [{ span: { start: d.span.start, end }, newText: replacement }], true)];
     }
     default: {
       const replacement = data["replacement"];

@@ -75,7 +75,28 @@ export function lastTokenIndexBefore(tokens: readonly IToken[], offset: number):
 export function statementAt(a: DocumentAnalysis, offset: number): Statement | undefined {
   const m = firstModel(a);
   if (!m) return undefined;
-  return m.statements.find((s) => s.kind !== "junk" && spanContains(s.span, offset));
+  // Statements are in source order and do not overlap (two may touch): the first one that contains
+  // the offset, found from the last one that starts at or before it.
+  const list = m.statements;
+  let lo = 0;
+  let hi = list.length - 1;
+  let last = -1;
+  while (lo <= hi) {
+    const mid = (lo + hi) >> 1;
+    if ((list[mid] as Statement).span.start <= offset) {
+      last = mid;
+      lo = mid + 1;
+    } else hi = mid - 1;
+  }
+  // Walking back, ends only decrease: stop at the first statement that ends before the offset.
+  let found: Statement | undefined;
+  for (let i = last; i >= 0; i--) {
+    const s = list[i] as Statement;
+    if (s.kind === "junk") continue;
+    if (s.span.end < offset) break;
+    found = s;
+  }
+  return found;
 }
 
 /** The symbol occurrence (parameter, site, lattice vector) at `offset`, if any. */

@@ -10,7 +10,7 @@ import type { SpinModel } from "../model/model";
 import { unitKey, unitInfo, constantNamed } from "../model/units";
 import type { Expr, Statement } from "../syntax/ast";
 import { statementExprs, walkExpr } from "../syntax/ast";
-import { isKeyword } from "../syntax/lexer";
+import { Identifier, isKeyword } from "../syntax/lexer";
 import { energyText, firstModel, formatNumber, spanContains, statementAt, symbolAt, tokenAt, tokenSpan } from "./common";
 import { physicsItems } from "./physicsView";
 import { predictionLines } from "./predictionsView";
@@ -32,7 +32,9 @@ export function doHover(a: DocumentAnalysis, offset: number): HoverResult | null
   const span = tokenSpan(token);
   const model = a.model;
   const statement = statementAt(a, offset);
-  const symbol = symbolAt(a, offset);
+  // Only a name can be a symbol: inside a keyword, number or punctuation there is none to search
+  // for (at the start of a token, a name may end right there: `J1|)`).
+  const symbol = token.tokenType === Identifier || offset === token.startOffset ? symbolAt(a, offset) : undefined;
 
   if (symbol && model) {
     if (symbol.kind === "parameter") {
