@@ -59,11 +59,8 @@ interface PieceResult {
   readonly statements: readonly Statement[];
   /** Where `statements` sit: the piece's offset in the file that placed it last. */
   start: number;
-  readonly tokens: readonly SpwToken[];
-  readonly comments: readonly SpwToken[];
-  /** Where `tokens` and `comments` sit: offset and one-based line of the piece's start. */
-  tokenStart: number;
-  tokenLine: number;
+  /** The piece's last token, relative to its start (lines from 1): where a missing '}' belongs. */
+  readonly lastToken: TokenRef | null;
   /** The parse (generation of its lineage) that placed the piece last. */
   generation: number;
 }
@@ -113,7 +110,11 @@ interface Piece {
   /** Blocks opened before this piece (its own header not counted). */
   readonly blocksBefore: number;
   result: PieceResult | null;
-  /** Header, close and top pieces: their tokens in file positions. */
+  /**
+   * The piece's tokens in file positions: for header, close and top pieces scanned with every
+   * parse; for statement pieces scanned again when asked for (tokens are cheap to make and costly
+   * to keep), and dropped when the piece moves.
+   */
   scan: ScanResult | null;
 }
 
@@ -165,18 +166,19 @@ function parsePiece(text: string): PieceResult {
     syntaxErrors,
     statements: lowered.statements,
     start: 0,
-    tokens: scan.tokens,
-    comments: scan.comments,
-    tokenStart: 0,
-    tokenLine: 1,
+    lastToken: lastOf(scan.tokens),
     generation: -1,
   };
 }
 
+function lastOf(tokens: readonly SpwToken[]): TokenRef | null {
+  const t = tokens[tokens.length - 1];
+  return t ? { start: t.startOffset, end: t.endOffset + 1, image: t.image, line: t.startLine } : null;
+}
+
 /** A second, independent copy of a piece's parse (the same text twice in one file). */
 function clonePiece(r: PieceResult): PieceResult {
-  const copy = (t: SpwToken): SpwToken => new SpwToken(t.image, t.startOffset, t.endOffset, t.startLine, t.endLine, t.tokenType, t.tokenTypeIdx);
-  return { ...r, statements: r.statements.map((s) => copyStatement(s, 0)), tokens: r.tokens.map(copy), comments: r.comments.map(copy), generation: -1 };
+  return { ...r, statements: r.statements.map((s) => copyStatement(s, 0)), generation: -1 };
 }
 
 function moveStatements(statements: readonly Statement[], delta: number): void {
@@ -186,15 +188,6 @@ function moveStatements(statements: readonly Statement[], delta: number): void {
     m.end += delta;
   };
   for (const st of statements) forEachSpan(st, move);
-}
-
-function moveTokens(tokens: readonly SpwToken[], delta: number, lines: number): void {
-  for (const t of tokens) {
-    t.startOffset += delta;
-    t.endOffset += delta;
-    t.startLine += lines;
-    t.endLine += lines;
-  }
 }
 
 function characterDiagnostic(text: string, offset: number, length: number, delta = 0): Diagnostic {
@@ -472,6 +465,7 @@ class SpwParse implements ParsedFile {
         p.start += delta;
         p.end += delta;
         p.line += lines;
+        p.scan = null;
         pieces.push(p);
       }
       // Inside a body: the rest of the old block, or its '}'. (A header met in a body has ended
@@ -632,14 +626,8 @@ class SpwParse implements ParsedFile {
 
   /** The last token of a piece of `block` (its header or one of its statement pieces). */
   private lastTokenOf(piece: Piece, block: BlockLayout): TokenRef {
-    if (piece.kind === "statements" && piece.result) {
-      const r = piece.result;
-      const t = r.tokens[r.tokens.length - 1];
-      if (t) {
-        const start = t.startOffset - r.tokenStart + piece.start;
-        return { start, end: start + t.image.length, image: t.image, line: t.startLine - r.tokenLine + piece.line };
-      }
-    }
+    const t = piece.kind === "statements" ? piece.result?.lastToken : null;
+    if (t) return { start: t.start + piece.start, end: t.end + piece.start, image: t.image, line: t.line + piece.line - 1 };
     return block.brace ?? block.headerTokens[block.headerTokens.length - 1] ?? block.model;
   }
 
@@ -733,17 +721,8 @@ class SpwParse implements ParsedFile {
 
   /** A piece's tokens and comments with offsets and lines in the file. */
   private placedTokens(piece: Piece): { readonly tokens: readonly IToken[]; readonly comments: readonly IToken[] } {
-    if (piece.scan) return piece.scan;
-    const result = piece.result as PieceResult;
-    if (result.tokenStart !== piece.start || result.tokenLine !== piece.line) {
-      const delta = piece.start - result.tokenStart;
-      const lines = piece.line - result.tokenLine;
-      moveTokens(result.tokens, delta, lines);
-      moveTokens(result.comments, delta, lines);
-      result.tokenStart = piece.start;
-      result.tokenLine = piece.line;
-    }
-    return result;
+    if (!piece.scan) piece.scan = scanText(this.text, piece.start, piece.end, 0, piece.line);
+    return piece.scan;
   }
 
   get tokens(): readonly IToken[] {
