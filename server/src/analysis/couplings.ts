@@ -2,7 +2,7 @@
 // (by the sign of its isotropic part in H = + sum S_i.J.S_j), and checks bond coordination
 // against the preset lattice. Analysis layer.
 import { diag, type Diagnostic } from "../base/diagnostics";
-import { bondKey, neighbourShells, PRESETS } from "../model/lattice";
+import { bondKeyOf, neighbourShells, PRESETS } from "../model/lattice";
 import type { ExchangeTerm, SpinModel } from "../model/model";
 import { decomposeExchange } from "../physics/symmetry";
 
@@ -80,7 +80,7 @@ export function checkCoordination(model: SpinModel): Diagnostic[] {
     if (Math.abs(decomposeExchange(t.matrixMeV).isotropic) === 0) continue;
     for (const b of t.bonds) {
       if (shellOf(model, b.distance) !== 1) continue;
-      nearest.add(bondKey(b.from, b.to, b.offset));
+      nearest.add(bondKeyOf(b));
       firstTerm ??= t;
     }
   }

@@ -1,7 +1,7 @@
 // Recognises common model families from the semantic model (lattice geometry, spins and bond
 // tensors, never the file's name) and places the couplings on their phase diagrams through the
 // physics layer's region table. Analysis layer.
-import { bondKey, canonicalBond } from "../model/lattice";
+import { bondKeyOf, canonicalBond } from "../model/lattice";
 import type { SpinModel } from "../model/model";
 import { addMat3, normMat3, outer3, scaleMat3, subMat3, IDENTITY3, dot3, mulMatVec3 } from "../physics/linalg3";
 import { placeInRegion, type FamilyInput, type RegionPlacement } from "../physics/regions";
@@ -117,7 +117,7 @@ export function detectFamily(model: SpinModel): FamilyResult {
       for (const b of t.bonds) {
         const s = shellOf(model, b.distance) ?? 99;
         const e = byShell.get(s) ?? { sum: 0, keys: new Set<string>(), iso: true };
-        e.keys.add(bondKey(b.from, b.to, b.offset));
+        e.keys.add(bondKeyOf(b));
         e.iso &&= isIsotropic(t.matrixMeV);
         byShell.set(s, e);
       }

@@ -64,4 +64,49 @@ describe("incremental analysis", () => {
     expect(third.physics).not.toBe(second.physics);
     expectSameAnalysis(third, analyzeDocument(changed));
   });
+
+  it("replays an unchanged exchange statement only while its lattice and values read the same", () => {
+    // A two-site cell; the second heisenberg bond A -> B repeats the first (a duplicate), the dm
+    // term reads D, which reads J.
+    const base = [
+      'model "kept-exchange" {',
+      "  spin 1/2",
+      "  convention antiferro-positive",
+      "  lattice { vector a1 = (1, 0, 0)  site A = (0, 0, 0)  site B = (0.5, 0, 0) }",
+      "  let J = 10 K",
+      "  let D = 0.1 * J",
+      "  exchange heisenberg(J) on A -> B",
+      "  exchange dm(D, (0, 0, 1)) on B -> A + (1)",
+      "  exchange heisenberg(2 K) on A -> B",
+      "}",
+      "",
+    ].join("\n");
+    const versions = [
+      base.replace("let J = 10 K", "let J = 10  K"), // a space: everything replays
+      base.replace("site B = (0.5, 0, 0)", "site B = (0.25, 0, 0)"), // new geometry: bonds again
+      base, // and back
+      base.replace("site B = (0.5", "site C = (0.5"), // B unknown now: errors on every bond
+      base, // back again: no stale replay from before the rename
+      base.replace("let J = 10 K", "let J = 12 K"), // J and D change: both terms rebuilt
+      base.replace("  exchange heisenberg(J) on A -> B\n", ""), // the duplicate is the first now
+      base,
+      // New geometry while J is missing (no term can be built), then J back: the terms kept from
+      // the old geometry must not come back.
+      base.replace("site B = (0.5, 0, 0)", "site B = (0.25, 0, 0)").replace("  let J = 10 K\n", ""),
+      base.replace("site B = (0.5, 0, 0)", "site B = (0.25, 0, 0)"),
+    ];
+    let analysis = analyzeDocument(base);
+    let dmMatrix = analysis.model?.exchanges[1]?.writtenMatrixMeV;
+    for (const [k, text] of versions.entries()) {
+      const incremental = analyzeDocument(text, { previous: analysis });
+      expectSameAnalysis(incremental, analyzeDocument(text));
+      const dm = incremental.model?.exchanges.find((t) => t.kind === "dm")?.writtenMatrixMeV;
+      // Kept (the same matrix object) exactly when nothing the dm statement reads has changed.
+      if (k === 0) expect(dm).toBe(dmMatrix);
+      if (k === 1 || k === 5) expect(dm).not.toBe(dmMatrix);
+      analysis = incremental;
+      dmMatrix = dm;
+    }
+    expect(analysis.diagnostics.filter((d) => d.code === "spw-bond-duplicate")).toHaveLength(1);
+  });
 });

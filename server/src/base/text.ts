@@ -17,6 +17,12 @@ export class LineIndex {
 
   constructor(readonly text: string) {
     const starts = [0];
+    if (text.indexOf("\r") < 0) {
+      // Only "\n" line ends (the common case): let the engine's indexOf find them.
+      for (let i = text.indexOf("\n"); i >= 0; i = text.indexOf("\n", i + 1)) starts.push(i + 1);
+      this.lineStarts = starts;
+      return;
+    }
     for (let i = 0; i < text.length; i++) {
       const c = text.charCodeAt(i);
       if (c === 10) starts.push(i + 1);

@@ -81,6 +81,68 @@ interface ParamEvaluation {
  */
 export class BuildMemo {
   readonly parameters = new WeakMap<LetStatement, ParamEvaluation>();
+  /** Exchange statements that built without a diagnostic, and what they built (see ExchangeEvaluation). */
+  readonly exchanges = new WeakMap<ExchangeStatement, ExchangeEvaluation>();
+  /** The lattice of the last build: kept exchange evaluations hold only while bonds read the same lattice. */
+  lattice: Lattice | null = null;
+}
+
+type ExchangeStatement = Extract<Statement, { kind: "exchange" }>;
+
+/**
+ * One bond as an exchange statement asks for it, before the duplicate check: sites, cell offset,
+ * the bond specification's span (in the tree, so it moves with it) and its shell. `key` and
+ * `bond` are filled on first use; both depend only on this request and the lattice.
+ */
+interface BondRequest {
+  readonly from: number;
+  readonly to: number;
+  readonly offset: readonly number[];
+  readonly span: Span;
+  readonly shell: number | null;
+  key?: string;
+  bond?: Bond;
+}
+
+/**
+ * What building one exchange statement did, when it reported nothing: the parameter values it
+ * read, the symbols it pushed, its matrix and the bonds it asked for. Replayed when the statement
+ * is the same tree, the lattice reads the same to bonds, and every value read is the same.
+ */
+interface ExchangeEvaluation {
+  /**
+   * The lattice of the build that last made or replayed this evaluation: it holds only in the next
+   * build, and only when that build's lattice reads the same to bonds.
+   */
+  lattice: Lattice;
+  readonly events: readonly EvalEvent[];
+  readonly symbols: readonly SymbolOccurrence[];
+  readonly written: { readonly matrix: Mat3; readonly scale: number };
+  readonly requests: readonly BondRequest[];
+}
+
+/** Equal values: the same numbers (NaN equal to NaN, 0 unequal to -0), shape and units. */
+function sameValue(a: Value | null | undefined, b: Value | null | undefined): boolean {
+  if (a === b) return true;
+  if (!a || !b || a.energy !== b.energy || a.field !== b.field || a.shape.length !== b.shape.length || a.data.length !== b.data.length) return false;
+  for (let k = 0; k < a.shape.length; k++) if (a.shape[k] !== b.shape[k]) return false;
+  for (let k = 0; k < a.data.length; k++) if (!Object.is(a.data[k], b.data[k])) return false;
+  return true;
+}
+
+/** Whether bonds read the same from both lattices: dimension, vectors, site names and positions. */
+function sameLatticeForBonds(a: Lattice | null, b: Lattice | null): boolean {
+  if (!a || !b) return false;
+  if (a === b) return true;
+  if (a.dimension !== b.dimension || a.vectors.length !== b.vectors.length || a.sites.length !== b.sites.length) return false;
+  const same3 = (x: Vec3, y: Vec3): boolean => x[0] === y[0] && x[1] === y[1] && x[2] === y[2];
+  for (let k = 0; k < a.vectors.length; k++) if (!same3(a.vectors[k]!, b.vectors[k]!)) return false;
+  for (let k = 0; k < a.sites.length; k++) {
+    const sa = a.sites[k]!;
+    const sb = b.sites[k]!;
+    if (sa.name !== sb.name || !same3(sa.position, sb.position)) return false;
+  }
+  return true;
 }
 
 export function buildModel(file: SpwFile, text = "", memo: BuildMemo | null = null): BuildResult {
@@ -226,13 +288,17 @@ class ModelBuilder {
   /** The parameters being evaluated, innermost last. */
   private readonly evaluatingOrder: string[] = [];
 
-  /** A kept evaluation applies when every name it read has the same value in this build already. */
-  private canReplay(e: ParamEvaluation): boolean {
+  /**
+   * A kept evaluation applies when every name it read has the same value in this build already
+   * (the same numbers, shape and units: a parameter whose statement was only reformatted is
+   * evaluated again, to an equal value, and what reads it need not be).
+   */
+  private canReplay(e: { readonly events: readonly EvalEvent[] }): boolean {
     for (const ev of e.events) {
       if (ev.kind !== "lookup") continue;
       if (this.paramStatements.has(ev.name)) {
         const p = this.params.get(ev.name);
-        if (!p || p.value !== ev.value) return false;
+        if (!p || !sameValue(p.value, ev.value)) return false;
       } else if (ev.value !== undefined) return false;
     }
     return true;
@@ -561,21 +627,12 @@ class ModelBuilder {
   private buildExchanges(sign: 1 | -1): ExchangeTerm[] {
     const out: ExchangeTerm[] = [];
     const seen = new Map<string, { span: Span; kind: ExchangeKind }>();
-    for (const s of this.block.statements) {
-      if (s.kind !== "exchange") continue;
-      const kindName = s.exchangeKind.name;
-      if (!(EXCHANGE_KINDS as readonly string[]).includes(kindName)) {
-        this.report(
-          diag("spw-kind-unknown", s.exchangeKind.span, `Unknown exchange kind '${kindName}'. Kinds: heisenberg(J), xxz(J, delta), xyz(Jx, Jy, Jz), dm(D, (x, y, z)), matrix([[...]]).`, {
-            data: { name: kindName, suggestions: closest(kindName, [...EXCHANGE_KINDS]) },
-          }),
-        );
-        continue;
-      }
-      const kind = kindName as ExchangeKind;
-      const written = this.exchangeMatrix(kind, s);
-      const bonds = this.expandBonds(s, kind, seen);
-      if (!written) continue;
+    const memo = this.memo;
+    const lattice = this.lattice;
+    const previousLattice = memo?.lattice ?? null;
+    const latticeSame = memo !== null && sameLatticeForBonds(previousLattice, lattice);
+    if (memo) memo.lattice = lattice;
+    const push = (s: ExchangeStatement, kind: ExchangeKind, written: { matrix: Mat3; scale: number }, bonds: Bond[]): void => {
       const first = s.args[0];
       out.push({
         index: out.length,
@@ -589,8 +646,53 @@ class ModelBuilder {
         scaleMeV: written.scale,
         bonds,
       });
+    };
+    for (const s of this.block.statements) {
+      if (s.kind !== "exchange") continue;
+      const kept = latticeSame && lattice ? memo?.exchanges.get(s) : undefined;
+      if (kept && lattice && kept.lattice === previousLattice && this.canReplay(kept)) {
+        kept.lattice = lattice;
+        for (const occurrence of kept.symbols) this.symbols.push(occurrence);
+        push(s, s.exchangeKind.name as ExchangeKind, kept.written, this.placeBonds(s.exchangeKind.name as ExchangeKind, kept.requests, lattice, seen));
+        continue;
+      }
+      const diagnosticsBefore = this.diagnostics.length;
+      const symbolsBefore = this.symbols.length;
+      const events: EvalEvent[] = [];
+      this.recording.push(events);
+      const built = this.buildExchange(s, seen);
+      this.recording.pop();
+      if (!built) continue;
+      push(s, built.kind, built.written, built.bonds);
+      if (memo && lattice && built.requests && this.diagnostics.length === diagnosticsBefore) {
+        memo.exchanges.set(s, { lattice, events, symbols: this.symbols.slice(symbolsBefore), written: built.written, requests: built.requests });
+      } else memo?.exchanges.delete(s);
     }
     return out;
+  }
+
+  /** One exchange statement: its kind, matrix and bonds (null when it cannot be built). */
+  private buildExchange(
+    s: ExchangeStatement,
+    seen: Map<string, { span: Span; kind: ExchangeKind }>,
+  ): { kind: ExchangeKind; written: { matrix: Mat3; scale: number }; bonds: Bond[]; requests: BondRequest[] | null } | null {
+    {
+      const kindName = s.exchangeKind.name;
+      if (!(EXCHANGE_KINDS as readonly string[]).includes(kindName)) {
+        this.report(
+          diag("spw-kind-unknown", s.exchangeKind.span, `Unknown exchange kind '${kindName}'. Kinds: heisenberg(J), xxz(J, delta), xyz(Jx, Jy, Jz), dm(D, (x, y, z)), matrix([[...]]).`, {
+            data: { name: kindName, suggestions: closest(kindName, [...EXCHANGE_KINDS]) },
+          }),
+        );
+        return null;
+      }
+      const kind = kindName as ExchangeKind;
+      const written = this.exchangeMatrix(kind, s);
+      const requests = this.bondRequests(s);
+      const bonds = this.lattice && requests ? this.placeBonds(kind, requests, this.lattice, seen) : [];
+      if (!written) return null;
+      return { kind, written, bonds, requests };
+    }
   }
 
   private exchangeMatrix(kind: ExchangeKind, s: Extract<Statement, { kind: "exchange" }>): { matrix: Mat3; scale: number } | null {
@@ -663,37 +765,18 @@ class ModelBuilder {
     }
   }
 
-  private expandBonds(
-    s: Extract<Statement, { kind: "exchange" }>,
-    kind: ExchangeKind,
-    seen: Map<string, { span: Span; kind: ExchangeKind }>,
-  ): Bond[] {
+  /**
+   * The bonds an exchange statement asks for, in order, before the duplicate check (null without
+   * a lattice: then only the site names are checked).
+   */
+  private bondRequests(s: ExchangeStatement): BondRequest[] | null {
     const lattice = this.lattice;
-    const bonds: Bond[] = [];
     if (!lattice) {
       for (const b of s.bonds) if (b.kind === "explicit") this.site(b.from), this.site(b.to);
-      return bonds;
+      return null;
     }
     const positions = lattice.sites.map((x) => x.position);
-    const add = (from: number, to: number, offset: readonly number[], span: Span, shell: number | null): void => {
-      const key = `${kind}:${bondKey(from, to, offset)}`;
-      const prev = seen.get(key);
-      if (prev) {
-        this.report(
-          diag(
-            "spw-bond-duplicate",
-            span,
-            `This ${kind} bond ${describeBond(lattice, from, to, offset)} is already given; it would be counted twice. Remove one of them.`,
-            { related: [{ span: prev.span, message: "the bond given first" }], data: { bond: describeBond(lattice, from, to, offset) } },
-          ),
-        );
-        return;
-      }
-      seen.set(key, { span, kind });
-      const c = canonicalBond(from, to, offset);
-      const distance = Math.hypot(...bondVector(lattice.vectors, positions, c.from, c.to, c.offset));
-      bonds.push({ from: c.from, to: c.to, offset: c.offset, distance, span, shell });
-    };
+    const requests: BondRequest[] = [];
     for (const b of s.bonds) {
       if (b.kind === "shell") {
         if (!Number.isInteger(b.shell) || b.shell < 1 || b.shell > 6) {
@@ -706,7 +789,7 @@ class ModelBuilder {
           this.report(diag("spw-shell-empty", b.shellSpan, `The lattice has no neighbour shell ${b.shell} within the search range.`));
           continue;
         }
-        for (const x of list) add(x.from, x.to, x.offset, b.span, b.shell);
+        for (const x of list) requests.push({ from: x.from, to: x.to, offset: x.offset, span: b.span, shell: b.shell });
         continue;
       }
       const from = this.site(b.from);
@@ -745,7 +828,37 @@ class ModelBuilder {
         );
         continue;
       }
-      add(from, to, offset, b.span, null);
+      requests.push({ from, to, offset, span: b.span, shell: null });
+    }
+    return requests;
+  }
+
+  /**
+   * The bonds of `requests`, each once: a bond already given (by this or an earlier statement of
+   * the same kind) is reported as counted twice and left out.
+   */
+  private placeBonds(kind: ExchangeKind, requests: readonly BondRequest[], lattice: Lattice, seen: Map<string, { span: Span; kind: ExchangeKind }>): Bond[] {
+    const bonds: Bond[] = [];
+    for (const r of requests) {
+      const key = (r.key ??= `${kind}:${bondKey(r.from, r.to, r.offset)}`);
+      const prev = seen.get(key);
+      if (prev) {
+        const where = describeBond(lattice, r.from, r.to, r.offset);
+        this.report(
+          diag("spw-bond-duplicate", r.span, `This ${kind} bond ${where} is already given; it would be counted twice. Remove one of them.`, {
+            related: [{ span: prev.span, message: "the bond given first" }],
+            data: { bond: where },
+          }),
+        );
+        continue;
+      }
+      seen.set(key, { span: r.span, kind });
+      if (!r.bond) {
+        const c = canonicalBond(r.from, r.to, r.offset);
+        const distance = Math.hypot(...bondVector(lattice.vectors, lattice.sites.map((x) => x.position), c.from, c.to, c.offset));
+        r.bond = { from: c.from, to: c.to, offset: c.offset, distance, span: r.span, shell: r.shell };
+      }
+      bonds.push(r.bond);
     }
     return bonds;
   }

@@ -135,6 +135,16 @@ export function bondKey(from: number, to: number, offset: readonly number[]): st
   return `${c.from}>${c.to}@${c.offset.join(",")}`;
 }
 
+/** Keys already made for bond objects (a model's bonds are immutable and live across builds). */
+const bondKeys = new WeakMap<object, string>();
+
+/** bondKey of a bond object, made once per object. */
+export function bondKeyOf(b: { readonly from: number; readonly to: number; readonly offset: readonly number[] }): string {
+  let key = bondKeys.get(b);
+  if (key === undefined) bondKeys.set(b, (key = bondKey(b.from, b.to, b.offset)));
+  return key;
+}
+
 const DISTANCE_TOLERANCE = 1e-6;
 
 /**

@@ -41,66 +41,85 @@ export interface SymmetricEigen3 {
  * Only the symmetric part (m + m^T)/2 is used.
  */
 export function symmetricEigen3(m: Mat3): SymmetricEigen3 {
-  const a: number[][] = [0, 1, 2].map((i) => [0, 1, 2].map((j) => 0.5 * (m[i]![j]! + m[j]![i]!)));
-  const v: number[][] = [
-    [1, 0, 0],
-    [0, 1, 0],
-    [0, 0, 1],
-  ];
-  const at = (i: number, j: number): number => a[i]![j]!;
-  const scaleNorm = Math.sqrt(a.flat().reduce((s, x) => s + x * x, 0));
+  // a and v are row-major 3x3 arrays (index 3 i + j); the same arithmetic, in the same order, as
+  // the textbook form with nested arrays, without allocating per rotation.
+  const a = [0, 0, 0, 0, 0, 0, 0, 0, 0];
+  for (let i = 0; i < 3; i++) for (let j = 0; j < 3; j++) a[3 * i + j] = 0.5 * (m[i]![j]! + m[j]![i]!);
+  const v = [1, 0, 0, 0, 1, 0, 0, 0, 1];
+  let sumSquares = 0;
+  for (let k = 0; k < 9; k++) sumSquares += a[k]! * a[k]!;
+  const scaleNorm = Math.sqrt(sumSquares);
   for (let sweep = 0; sweep < 64; sweep++) {
-    const off = at(0, 1) ** 2 + at(0, 2) ** 2 + at(1, 2) ** 2;
+    const off = a[1]! ** 2 + a[2]! ** 2 + a[5]! ** 2;
     if (!(off > (1e-17 * scaleNorm) ** 2)) break;
-    for (const [p, q] of [
-      [0, 1],
-      [0, 2],
-      [1, 2],
-    ] as const) {
-      const apq = at(p, q);
+    for (let pair = 0; pair < 3; pair++) {
+      const p = pair === 2 ? 1 : 0;
+      const q = pair === 0 ? 1 : 2;
+      const apq = a[3 * p + q]!;
       if (apq === 0) continue;
       // Rotation P with P_pp = P_qq = c, P_pq = s, P_qp = -s zeroes a'_pq in a' = P^T a P.
-      const theta = (at(q, q) - at(p, p)) / (2 * apq);
+      const theta = (a[3 * q + q]! - a[3 * p + p]!) / (2 * apq);
       const t = (theta >= 0 ? 1 : -1) / (Math.abs(theta) + Math.sqrt(theta * theta + 1));
       const c = 1 / Math.sqrt(t * t + 1);
       const s = t * c;
       for (let k = 0; k < 3; k++) {
-        const akp = at(k, p);
-        const akq = at(k, q);
-        a[k]![p] = c * akp - s * akq;
-        a[k]![q] = s * akp + c * akq;
+        const akp = a[3 * k + p]!;
+        const akq = a[3 * k + q]!;
+        a[3 * k + p] = c * akp - s * akq;
+        a[3 * k + q] = s * akp + c * akq;
       }
       for (let k = 0; k < 3; k++) {
-        const apk = at(p, k);
-        const aqk = at(q, k);
-        a[p]![k] = c * apk - s * aqk;
-        a[q]![k] = s * apk + c * aqk;
+        const apk = a[3 * p + k]!;
+        const aqk = a[3 * q + k]!;
+        a[3 * p + k] = c * apk - s * aqk;
+        a[3 * q + k] = s * apk + c * aqk;
       }
       for (let k = 0; k < 3; k++) {
-        const vkp = v[k]![p]!;
-        const vkq = v[k]![q]!;
-        v[k]![p] = c * vkp - s * vkq;
-        v[k]![q] = s * vkp + c * vkq;
+        const vkp = v[3 * k + p]!;
+        const vkq = v[3 * k + q]!;
+        v[3 * k + p] = c * vkp - s * vkq;
+        v[3 * k + q] = s * vkp + c * vkq;
       }
     }
   }
-  const order = [0, 1, 2].sort((i, j) => at(i, i) - at(j, j));
-  const column = (k: number): Vec3 => [v[0]![k]!, v[1]![k]!, v[2]![k]!];
+  // Ascending order of the diagonal (a stable sort of the indices, as Array.prototype.sort is).
+  const d0 = a[0]!;
+  const d1 = a[4]!;
+  const d2 = a[8]!;
+  const order = [0, 1, 2].sort((i, j) => (i === 0 ? d0 : i === 1 ? d1 : d2) - (j === 0 ? d0 : j === 1 ? d1 : d2));
   const [o0, o1, o2] = [order[0] ?? 0, order[1] ?? 1, order[2] ?? 2];
+  const column = (k: number): Vec3 => [v[k]!, v[3 + k]!, v[6 + k]!];
   return {
-    values: [at(o0, o0), at(o1, o1), at(o2, o2)],
+    values: [a[4 * o0]!, a[4 * o1]!, a[4 * o2]!],
     vectors: [column(o0), column(o1), column(o2)],
   };
 }
 
 /** Symmetric part (m + m^T)/2. */
 export function symmetricPart3(m: Mat3): Mat3 {
-  return scaleMat3(addMat3(m, transpose3(m)), 0.5);
+  const [r0, r1, r2] = m;
+  const a01 = 0.5 * (r0[1] + r1[0]);
+  const a02 = 0.5 * (r0[2] + r2[0]);
+  const a12 = 0.5 * (r1[2] + r2[1]);
+  return [
+    [r0[0], a01, a02],
+    [a01, r1[1], a12],
+    [a02, a12, r2[2]],
+  ];
 }
 
 /** Symmetric traceless part (m + m^T)/2 - tr(m)/3 * 1. */
 export function symmetricTracelessPart3(m: Mat3): Mat3 {
-  return subMat3(symmetricPart3(m), scaleMat3(IDENTITY3, trace3(m) / 3));
+  const [r0, r1, r2] = m;
+  const third = (r0[0] + r1[1] + r2[2]) / 3;
+  const a01 = 0.5 * (r0[1] + r1[0]);
+  const a02 = 0.5 * (r0[2] + r2[0]);
+  const a12 = 0.5 * (r1[2] + r2[1]);
+  return [
+    [r0[0] - third, a01, a02],
+    [a01, r1[1] - third, a12],
+    [a02, a12, r2[2] - third],
+  ];
 }
 
 /**
@@ -449,7 +468,7 @@ export function classifySymmetry(input: SymmetryInput): SymmetryClassification {
 
   // Sum bonds per unordered site pair where the caller gave pairs.
   const bondGroups: { ids: string[]; matrix: Mat3 }[] = [];
-  const pairIndex = new Map<string, number>();
+  const pairIndex = new Map<number, number>();
   for (const bond of input.bonds) {
     if (!bond.sites) {
       bondGroups.push({ ids: [bond.id], matrix: bond.matrix });
@@ -457,7 +476,8 @@ export function classifySymmetry(input: SymmetryInput): SymmetryClassification {
     }
     const [i, j] = bond.sites;
     const oriented = i <= j ? bond.matrix : transpose3(bond.matrix);
-    const key = `${Math.min(i, j)}:${Math.max(i, j)}`;
+    // One number per unordered pair (exact for site indices below 2^26).
+    const key = Math.min(i, j) * 67108864 + Math.max(i, j);
     const at = pairIndex.get(key);
     const group = at === undefined ? undefined : bondGroups[at];
     if (group) {
