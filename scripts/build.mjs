@@ -29,7 +29,7 @@ for (const [entry, outfile] of entries) {
     ...(production ? { legalComments: "none" } : {}),
     logLevel: "warning",
     // vscode-json-languageservice's UMD build requires its modules dynamically; take its ES build.
-    ...(entry.startsWith("bench/jsonServer") ? { mainFields: ["module", "main"] } : {}),
+    ...(entry.startsWith("bench/") ? { mainFields: ["module", "main"] } : {}),
     banner: entry.endsWith("cli/main.ts") ? { js: "#!/usr/bin/env node" } : {},
   });
   // A minified bundle has no map; an old one beside it would point at other code.
