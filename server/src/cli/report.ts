@@ -1,7 +1,7 @@
 // The readable report of a model (`spinwright report`): parameters, lattice, couplings, field,
 // then what the physics analysis finds. CLI layer.
 import type { DocumentAnalysis } from "../analysis/analyze";
-import { fmt } from "../model/build";
+import { formatNumber as fmt } from "../service/common";
 import { describeBond } from "../model/build";
 import { MEV_PER_GHZ, MEV_PER_K } from "../model/units";
 import { formatText } from "./format";
@@ -93,7 +93,8 @@ function physicsLines(a: DocumentAnalysis): string[] {
       `Zeeman energy: ${fmt(z.zeemanMeV)} meV = ${fmt(z.zeemanGHz ?? 0)} GHz = ${fmt(z.zeemanK ?? 0)} K = ${fmt(z.zeemanMeV / MEV_PER_CM)} cm^-1 (g along the field ${fmt(z.gAlongField ?? 0)}, CODATA 2018)`,
     );
   if (z.probe) out.push(`probe: ${fmt(z.probe.frequencyGHz)} GHz, resonant at ${z.probe.resonanceFieldT === null ? "no single field (g is not uniform)" : `${fmt(z.probe.resonanceFieldT)} T`}`);
-  out.push(`q = 0 resonance: ${z.protected ? "protected" : "not protected"}: ${z.reason}`);
+  // The reason is a whole sentence that says why; the tag in brackets is for a reader scanning.
+  out.push(`q = 0 resonance [${z.protected ? "protected" : "not protected"}]: ${z.reason}`);
   if (z.dmDoublet) out.push(`  uniform DM parallel to the field: the line becomes a doublet, tan θ = D/J = ${fmt(z.dmDoublet.dMeV / Math.abs(z.dmDoublet.jMeV))}`);
   out.push("predictions in the field:", ...predictionLines(p.predictions).map((l) => `  ${l}`));
   return out;

@@ -1,7 +1,7 @@
 // Readable lines for the field-dependent predictions, each number with its method or the reason
 // it is missing: used by hovers, the preview and `spinwright report`. Service layer.
 import type { Predictions } from "../analysis/predictions";
-import { fmt } from "../model/build";
+import { formatNumber as fmt } from "./common";
 
 export function predictionLines(p: Predictions, options: { sweep?: boolean } = {}): string[] {
   const out: string[] = [];
