@@ -63,9 +63,23 @@ function nameRef(t: IToken | undefined): NameRef | undefined {
 }
 
 function byOffset<T extends { span: Span } | IToken>(items: T[]): T[] {
+  if (items.length < 2) return items.length === 0 ? NO_ELEMENTS : [...items];
   const key = (x: T): number => ("span" in x ? x.span.start : x.startOffset);
   return [...items].sort((a, b) => key(a) - key(b));
 }
+
+/** The real tokens under several child keys, in source order (no allocation when there are none). */
+function tokensInOrder(c: Children, names: readonly string[]): IToken[] {
+  let found: IToken[] = NO_ELEMENTS;
+  for (const name of names) {
+    const list = tokens(c, name);
+    if (list.length > 0) found = found.length === 0 ? list : [...found, ...list];
+  }
+  return byOffset(found);
+}
+
+const SIGNS = ["Minus", "Plus"];
+const OPERATORS = ["Plus", "Minus", "Star", "Slash", "Caret"];
 
 export function lowerExpr(n: CstNode | undefined): Expr | undefined {
   if (!n) return undefined;
@@ -78,7 +92,7 @@ export function lowerExpr(n: CstNode | undefined): Expr | undefined {
     case "operand": {
       const inner = lowerExpr(nodes(c, "primary")[0]);
       if (!inner) return undefined;
-      return applySigns(byOffset([...tokens(c, "Minus"), ...tokens(c, "Plus")]), inner, span);
+      return applySigns(tokensInOrder(c, SIGNS), inner, span);
     }
     case "primary":
       return lowerPrimary(c, span);
@@ -113,9 +127,12 @@ function lowerOperatorChain(c: Children, span: Span): Expr | undefined {
     const oc = o.children as Children;
     const body = lowerExpr(nodes(oc, "primary")[0]);
     const ospan = nodeSpan(o);
-    return body && ospan ? { signs: byOffset([...tokens(oc, "Minus"), ...tokens(oc, "Plus")]), body, span: ospan } : null;
+    return body && ospan ? { signs: tokensInOrder(oc, SIGNS), body, span: ospan } : null;
   });
-  const ops = byOffset([...tokens(c, "Plus"), ...tokens(c, "Minus"), ...tokens(c, "Star"), ...tokens(c, "Slash"), ...tokens(c, "Caret")]).map((t) => t.image);
+  const ops = tokensInOrder(c, OPERATORS).map((t) => t.image);
+  const only = pieces[0];
+  // One operand, no operator (most expressions): what the general path below gives, directly.
+  if (pieces.length === 1 && only && ops.length === 0) return applySigns(only.signs, only.body, { start: only.span.start, end: only.body.span.end });
   if (pieces.length === 0 || pieces.some((p) => p === null) || ops.length !== pieces.length - 1) {
     const first = pieces[0];
     if (pieces.length === 1 && first) return applySigns(first.signs, first.body, span);
@@ -407,11 +424,14 @@ const STATEMENT_RULES = [
 export function lowerPiece(cst: CstNode, text: string): { statements: Statement[]; diagnostics: Diagnostic[] } {
   const diagnostics: Diagnostic[] = [];
   const c = cst.children as Children;
-  const statements = byOffset(
-    STATEMENT_RULES.flatMap((r) => nodes(c, r))
-      .map((s) => lowerStatement(s, text))
-      .filter((s): s is Statement => s !== undefined),
-  );
+  const lowered: Statement[] = [];
+  for (const r of STATEMENT_RULES) {
+    for (const n of nodes(c, r)) {
+      const s = lowerStatement(n, text);
+      if (s) lowered.push(s);
+    }
+  }
+  const statements = lowered.length < 2 ? lowered : byOffset(lowered);
   reportJunk(statements, text, diagnostics);
   return { statements, diagnostics };
 }
