@@ -81,6 +81,8 @@ interface ParamEvaluation {
  */
 export class BuildMemo {
   readonly parameters = new WeakMap<LetStatement, ParamEvaluation>();
+  /** The definition occurrence of each `let` statement's name (it points at the tree's span). */
+  readonly definitions = new WeakMap<LetStatement, SymbolOccurrence>();
   /** Exchange statements that built without a diagnostic, and what they built (see ExchangeEvaluation). */
   readonly exchanges = new WeakMap<ExchangeStatement, ExchangeEvaluation>();
   /** The lattice of the last build: kept exchange evaluations hold only while bonds read the same lattice. */
@@ -257,7 +259,13 @@ class ModelBuilder {
         continue;
       }
       this.paramStatements.set(name, s);
-      this.symbols.push({ name, kind: "parameter", span: s.name.span, isDefinition: true });
+      // The occurrence only points into the tree: the one made for this statement before serves.
+      let definition = this.memo?.definitions.get(s);
+      if (!definition || definition.name !== name) {
+        definition = { name, kind: "parameter", span: s.name.span, isDefinition: true };
+        this.memo?.definitions.set(s, definition);
+      }
+      this.symbols.push(definition);
     }
   }
 
