@@ -131,6 +131,19 @@ describe("hover on the field and the symmetry claim: predictions and computed sy
     expect(md).toMatch(/Bethe ansatz/);
   });
 
+  it("the field hover says whether the q = 0 line is protected, and why (Larmor theorem)", () => {
+    expect(hoverAt(HEISENBERG)).toMatch(/by the Larmor theorem the q = 0 resonance sits exactly at the Zeeman energy/);
+    const dm = hoverAt(HEISENBERG.replace("g Cu = 2", "exchange dm(0.05 * J, (0, 0, 1)) on Cu -> Cu + (1)\n  g Cu = 2"));
+    expect(dm).toMatch(/q = 0 resonance is not protected because H0 is not SU\(2\)-symmetric/);
+  });
+
+  it("an alternative method under a prediction is a nested list item", () => {
+    const md = hoverAt(HEISENBERG.replace("0.5 T", "6 T"));
+    // Each line of the predictions is a list item; a method listed under the line before it is nested.
+    expect(md).toMatch(/\n  - leading-order field theory/);
+    expect(md).not.toMatch(/\n- {2,}/);
+  });
+
   it("the field hover of a DM chain says why no splitting is given and shows the doublet", () => {
     const md = hoverAt(HEISENBERG.replace("g Cu = 2", "exchange dm(0.05 * J, (0, 0, 1)) on Cu -> Cu + (1)\n  g Cu = 2").replace("0.5 T", "6 T"));
     expect(md).toMatch(/DM doublet/);

@@ -492,10 +492,14 @@ class ModelBuilder {
     if (s.kind === "latticePreset") {
       const p = PRESETS[s.preset.name];
       if (!p) {
+        const suggestions = closest(s.preset.name, Object.keys(PRESETS));
         this.report(
-          diag("spw-lattice-unknown", s.preset.span, `Unknown lattice '${s.preset.name}'. Presets: ${Object.keys(PRESETS).join(", ")}; or write a custom lattice { ... } block.`, {
-            data: { name: s.preset.name, suggestions: closest(s.preset.name, Object.keys(PRESETS)) },
-          }),
+          diag(
+            "spw-lattice-unknown",
+            s.preset.span,
+            `Unknown lattice '${s.preset.name}'${suggestions[0] ? `; did you mean ${suggestions[0]}?` : "."} Presets: ${Object.keys(PRESETS).join(", ")}; or write a custom lattice { ... } block.`,
+            { data: { name: s.preset.name, suggestions } },
+          ),
         );
         return null;
       }
@@ -687,10 +691,14 @@ class ModelBuilder {
     {
       const kindName = s.exchangeKind.name;
       if (!(EXCHANGE_KINDS as readonly string[]).includes(kindName)) {
+        const suggestions = closest(kindName, [...EXCHANGE_KINDS]);
         this.report(
-          diag("spw-kind-unknown", s.exchangeKind.span, `Unknown exchange kind '${kindName}'. Kinds: heisenberg(J), xxz(J, delta), xyz(Jx, Jy, Jz), dm(D, (x, y, z)), matrix([[...]]).`, {
-            data: { name: kindName, suggestions: closest(kindName, [...EXCHANGE_KINDS]) },
-          }),
+          diag(
+            "spw-kind-unknown",
+            s.exchangeKind.span,
+            `Unknown exchange kind '${kindName}'${suggestions[0] ? `; did you mean ${suggestions[0]}?` : "."} Kinds: heisenberg(J), xxz(J, delta), xyz(Jx, Jy, Jz), dm(D, (x, y, z)), matrix([[...]]).`,
+            { data: { name: kindName, suggestions } },
+          ),
         );
         return null;
       }

@@ -13,7 +13,7 @@ import { statementExprs, walkExpr } from "../syntax/ast";
 import { Identifier, isKeyword } from "../syntax/lexer";
 import { energyText, firstModel, formatNumber, spanContains, statementAt, symbolAt, tokenAt, tokenSpan } from "./common";
 import { physicsItems } from "./physicsView";
-import { predictionLines } from "./predictionsView";
+import { markdownList, predictionLines } from "./predictionsView";
 import { describeClass, kindText } from "../analysis/symmetryCheck";
 import { energyConversions, parameterValueText, zeemanLines, zeemanText } from "./quantities";
 import { CLAUSE_WORDS, CONVENTIONS, KIND_SIGNATURES, STATEMENT_WORDS, SYMMETRY_CLAIMS, unitDescription } from "./vocabulary";
@@ -152,9 +152,10 @@ function fieldHover(a: DocumentAnalysis, model: SpinModel): string | null {
     out.push(`Sweep ${formatNumber(field.sweep.fromT)} T to ${formatNumber(field.sweep.toT)} T in ${field.sweep.steps} steps; at ${formatNumber(field.sweep.toT)} T: ${end.map((z) => energyText(z.energyMeV, "meV")).join(", ")}.`);
   }
   const resonance = a.physics?.resonance;
-  if (resonance?.hasField && resonance.reason) out.push(`q = 0 resonance: ${resonance.reason}`);
+  // The reason is a whole sentence that names the q = 0 resonance itself.
+  if (resonance?.hasField && resonance.reason) out.push(resonance.reason);
   const predictions = a.physics?.predictions;
-  if (predictions?.applicable) out.push(`**Predicted near q = 0**\n\n${predictionLines(predictions, { sweep: false }).map((l) => `- ${l}`).join("\n")}`);
+  if (predictions?.applicable) out.push(`**Predicted near q = 0**\n\n${markdownList(predictionLines(predictions, { sweep: false }))}`);
   out.push("_μB and conversions: CODATA 2018 (Tiesinga et al., Rev. Mod. Phys. 2021)._");
   return out.join("\n\n");
 }
@@ -167,7 +168,7 @@ function modelHover(a: DocumentAnalysis): string {
     if (L) out.push(`${L.preset ?? "custom"} lattice, ${L.dimension}D, ${L.sites.length} site(s) per cell; ${m.parameters.size} parameter(s), ${m.exchanges.length} exchange term(s)`);
     out.push(`convention: ${m.convention?.value ?? "antiferro-positive (assumed)"}`);
   }
-  for (const item of physicsItems(a)) out.push(`**${item.title}**\n\n${item.lines.map((l) => `- ${l}`).join("\n")}`);
+  for (const item of physicsItems(a)) out.push(`**${item.title}**\n\n${markdownList(item.lines)}`);
   const errors = a.diagnostics.filter((d) => d.severity === "error").length;
   const warnings = a.diagnostics.filter((d) => d.severity === "warning").length;
   out.push(`${errors} error(s), ${warnings} warning(s)`);
@@ -249,7 +250,7 @@ function statementHover(a: DocumentAnalysis, s: Statement, offset: number, span:
       const resonantT = a.physics?.resonance?.probe?.resonanceFieldT;
       const resonance = typeof resonantT === "number" ? `\n\nResonant (h ν = g μB B) at B = ${formatNumber(resonantT)} T.` : "";
       const pred = a.physics?.predictions;
-      const branches = pred?.applicable ? `\n\n${predictionLines(pred, { sweep: false }).map((l) => `- ${l}`).join("\n")}` : "";
+      const branches = pred?.applicable ? `\n\n${markdownList(predictionLines(pred, { sweep: false }))}` : "";
       return { span, markdown: `**probe** ${energyConversions(e, null).join(" = ")} = ${energyText(e, "cm^-1")}${resonance}${branches}\n\n${CODATA_NOTE}` };
     }
     case "cluster": {

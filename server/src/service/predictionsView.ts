@@ -36,3 +36,11 @@ export function predictionLines(p: Predictions, options: { sweep?: boolean } = {
   }
   return out;
 }
+
+/**
+ * Lines as a Markdown list: a line indented by two spaces (an alternative method under the line
+ * before it) becomes a nested item.
+ */
+export function markdownList(lines: readonly string[]): string {
+  return lines.map((l) => (l.startsWith("  ") ? `  - ${l.trimStart()}` : `- ${l}`)).join("\n");
+}

@@ -8,6 +8,7 @@ import { describeBond } from "../model/build";
 import { clusterSiteCount } from "./codeLens";
 import { displayUnitOf, energyText, firstModel, formatNumber, type ServiceSettings } from "./common";
 import { physicsItems, type PhysicsItem } from "./physicsView";
+import { markdownList } from "./predictionsView";
 import { parameterValueText, zeemanLines, zeemanText } from "./quantities";
 
 export interface AnalysisSummary {
@@ -80,7 +81,7 @@ export function summaryMarkdown(s: AnalysisSummary, fileName: string): string {
     out.push("", "## Exchange terms", "", "| kind | coupling | scale | bonds |", "|---|---|---|---|");
     for (const e of s.exchanges) out.push(`| ${e.kind} | ${e.coupling} | ${e.scale} | ${e.bonds} |`);
   }
-  for (const p of s.physics) out.push("", `## ${p.title}`, "", ...p.lines.map((l) => `- ${l}`));
+  for (const p of s.physics) out.push("", `## ${p.title}`, "", markdownList(p.lines));
   out.push("", "## Diagnostics", "");
   if (s.diagnostics.length === 0) out.push("none");
   for (const d of s.diagnostics) out.push(`- line ${d.line}: ${d.severity} ${d.code}: ${d.message}`);
