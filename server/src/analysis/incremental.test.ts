@@ -5,11 +5,21 @@
 import { describe, expect, it } from "vitest";
 import { generatedModel } from "../service/benchmark";
 import { applyEdit, mulberry32, projectTexts, randomEdit } from "../syntax/mutations.testutil";
+import type { SymbolOccurrence } from "../model/model";
 import { analyzeDocument, type DocumentAnalysis } from "./analyze";
+
+/** Symbol occurrences in source order (the model's list has no meaningful order). */
+function inSourceOrder(symbols: readonly SymbolOccurrence[]): SymbolOccurrence[] {
+  return [...symbols].sort((x, y) => x.span.start - y.span.start || x.span.end - y.span.end || Number(y.isDefinition) - Number(x.isDefinition) || x.kind.localeCompare(y.kind));
+}
 
 function expectSameAnalysis(incremental: DocumentAnalysis, fresh: DocumentAnalysis): void {
   expect(incremental.diagnostics).toEqual(fresh.diagnostics);
-  expect(incremental.model).toEqual(fresh.model);
+  const { symbols: a, ...incrementalModel } = incremental.model ?? { symbols: [] };
+  const { symbols: b, ...freshModel } = fresh.model ?? { symbols: [] };
+  expect(incrementalModel).toEqual(freshModel);
+  expect(inSourceOrder(a)).toEqual(inSourceOrder(b));
+  expect(incremental.model === null).toBe(fresh.model === null);
   expect(incremental.physics).toEqual(fresh.physics);
   // Every symbol and parameter span names what the text says at that place.
   for (const s of incremental.model?.symbols ?? []) expect(incremental.text.slice(s.span.start, s.span.end)).toBe(s.name);
@@ -108,5 +118,45 @@ describe("incremental analysis", () => {
       dmMatrix = dm;
     }
     expect(analysis.diagnostics.filter((d) => d.code === "spw-bond-duplicate")).toHaveLength(1);
+  });
+
+  it("takes over the parameters of the build before only where no edit reaches: cycles, chains, forward reads, diagnostics", () => {
+    const base = [
+      'model "parameter-take-over" {',
+      "  spin 1/2",
+      "  convention antiferro-positive",
+      "  lattice chain sites Cu",
+      "  let D = 0.1 * J", // reads J before its definition
+      "  let J = 10 K",
+      "  let E = 2 * D", // a chain J -> D -> E
+      "  let a = b + 1 K", // a cycle a -> b -> a, in no edited statement
+      "  let b = a",
+      "  let u = 5 furlongs", // a diagnostic of its own
+      "  let c = 3 K",
+      "  exchange heisenberg(J) on Cu -> Cu + (1)",
+      "  exchange dm(E, (0, 0, 1)) on Cu -> Cu + (1)",
+      "}",
+      "",
+    ].join("\n");
+    const versions = [
+      base.replace("  spin 1/2", "  # a comment above everything\n  spin 1/2"), // every statement moves
+      base.replace("let J = 10 K", "let J = 12 K"), // D and E follow J
+      base.replace("let c = 3 K", "let c = 2 * J"), // c now reads J
+      base.replace("let c = 3 K", "let c = 2 * J").replace("let J = 10 K", "let J = 11 K"), // and follows it
+      base.replace("let b = a", "let b = 4 K"), // the cycle is gone
+      base.replace("let c = 3 K", "let c = c"), // a new cycle in an edited statement
+      base,
+      base.replace("let u = 5 furlongs", "let u = 5 K"), // the diagnostic goes
+      base.replace("exchange heisenberg(J)", "exchange heisenberg(c)"), // no let changed
+    ];
+    let analysis = analyzeDocument(base);
+    for (const text of versions) {
+      const incremental = analyzeDocument(text, { previous: analysis });
+      expectSameAnalysis(incremental, analyzeDocument(text));
+      analysis = incremental;
+    }
+    // The cycle and the unknown unit are reported after edits elsewhere too.
+    const edited = analyzeDocument(base.replace("let J = 10 K", "let J = 9 K"), { previous: analyzeDocument(base) });
+    expect(edited.diagnostics.map((d) => d.code)).toEqual(expect.arrayContaining(["spw-param-cycle", "spw-unit-unknown"]));
   });
 });

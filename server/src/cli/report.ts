@@ -27,7 +27,7 @@ export function renderReport(file: string, a: DocumentAnalysis): string {
   }
   if (m.parameters.size > 0) {
     out.push("parameters:");
-    for (const p of m.parameters.values()) {
+    for (const p of [...m.parameters.values()].sort((x, y) => x.statementSpan.start - y.statementSpan.start)) {
       const v = p.value;
       if (!v) out.push(`  ${p.name} = (invalid)`);
       else if (v.energy === 1 && v.field === 0 && v.shape.length === 0)

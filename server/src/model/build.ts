@@ -83,6 +83,8 @@ export class BuildMemo {
   readonly parameters = new WeakMap<LetStatement, ParamEvaluation>();
   /** The definition occurrence of each `let` statement's name (it points at the tree's span). */
   readonly definitions = new WeakMap<LetStatement, SymbolOccurrence>();
+  /** The parameters of the last build as a whole, for a build that changes only a few of them. */
+  parameterPhase: ParameterPhase | null = null;
   /** Exchange statements that built without a diagnostic, and what they built (see ExchangeEvaluation). */
   readonly exchanges = new WeakMap<ExchangeStatement, ExchangeEvaluation>();
   /** The lattice of the last build: kept exchange evaluations hold only while bonds read the same lattice. */
@@ -90,6 +92,46 @@ export class BuildMemo {
 }
 
 type ExchangeStatement = Extract<Statement, { kind: "exchange" }>;
+
+/**
+ * Everything the parameters of one build came to, kept so that the next build can take it over
+ * and evaluate only the parameters an edit can reach: those whose statement changed, those in a
+ * dependency cycle, and, transitively, every parameter whose evaluation read one of them. Kept
+ * only when the `let` names raised no diagnostic (no duplicates, units or constants).
+ */
+interface ParameterPhase {
+  /** The `let` statements in source order. */
+  readonly lets: readonly LetStatement[];
+  readonly paramStatements: ReadonlyMap<string, LetStatement>;
+  readonly params: ReadonlyMap<string, Parameter>;
+  /** For each name, the parameters whose evaluation read it. */
+  readonly dependents: ReadonlyMap<string, ReadonlySet<string>>;
+  /** The definition occurrences, in the order of `lets`. */
+  readonly definitions: readonly SymbolOccurrence[];
+  /** The references pushed by each parameter's evaluation (empty lists left out). */
+  readonly references: ReadonlyMap<string, readonly SymbolOccurrence[]>;
+  /** Parameters whose evaluation reported diagnostics, and those in a dependency cycle. */
+  readonly noisy: ReadonlySet<string>;
+  readonly cyclic: ReadonlySet<string>;
+}
+
+/** A take-over of the last build's parameters (see ParameterPhase). */
+interface FastParameters {
+  readonly previous: ParameterPhase;
+  /** The parameters to evaluate again; every other one stands as it was. */
+  readonly affected: ReadonlySet<string>;
+  /** The names each affected parameter read in the build before. */
+  readonly readsBefore: ReadonlyMap<string, readonly string[]>;
+}
+
+function readsOf(e: ParamEvaluation | undefined): string[] {
+  const out: string[] = [];
+  for (const ev of e?.events ?? []) if (ev.kind === "lookup") out.push(ev.name);
+  return out;
+}
+
+/** Edited `let` statements beyond which a build evaluates every parameter again. */
+const MAX_CHANGED_LETS = 16;
 
 /**
  * One bond as an exchange statement asks for it, before the duplicate check: sites, cell offset,
@@ -170,10 +212,19 @@ export function buildModel(file: SpwFile, text = "", memo: BuildMemo | null = nu
 }
 
 class ModelBuilder {
-  private readonly params = new Map<string, Parameter>();
-  private readonly paramStatements = new Map<string, Extract<Statement, { kind: "let" }>>();
+  private params = new Map<string, Parameter>();
+  private paramStatements = new Map<string, Extract<Statement, { kind: "let" }>>();
+  /**
+   * Parameters taken over from the build before whose values an edit may have changed: present in
+   * `params` (so that the list keeps its order) but evaluated again before anything reads them.
+   */
+  private readonly stale = new Set<string>();
+  /** Names in a dependency cycle found in this build. */
+  private readonly cyclic = new Set<string>();
+  /** The definition occurrences pushed by collectParameters, in order. */
+  private definitions: SymbolOccurrence[] = [];
   private readonly evaluating = new Set<string>();
-  private readonly symbols: SymbolOccurrence[] = [];
+  private symbols: SymbolOccurrence[] = [];
   private readonly siteIndex = new Map<string, number>();
   private lattice: Lattice | null = null;
 
@@ -204,11 +255,17 @@ class ModelBuilder {
 
   build(): SpinModel {
     const st = this.block.statements;
-    this.collectParameters();
+    const lets = st.filter((s): s is LetStatement => s.kind === "let");
+    const diagnosticsBefore = this.diagnostics.length;
+    const fast = this.takeOverParameters(lets);
+    if (!fast) this.collectParameters();
+    const namesClean = this.diagnostics.length === diagnosticsBefore;
     const convention = this.buildConvention();
     const sign: 1 | -1 = convention?.value === "ferro-positive" ? -1 : 1;
     this.lattice = this.buildLattice();
-    for (const s of st) if (s.kind === "let") this.parameter(s.name.name);
+    if (fast) this.finishParameters(fast);
+    else for (const s of lets) this.parameter(s.name.name);
+    if (this.memo) this.memo.parameterPhase = namesClean ? this.parameterPhase(lets, fast) : null;
     const exchanges = this.buildExchanges(sign);
     const singleIon = this.buildSingleIon();
     const field = this.buildField();
@@ -266,7 +323,132 @@ class ModelBuilder {
         this.memo?.definitions.set(s, definition);
       }
       this.symbols.push(definition);
+      this.definitions.push(definition);
     }
+  }
+
+  // ---- taking over the parameters of the build before ---------------------------------------
+
+  /**
+   * When the `let` statements carry the same names in the same order as in the last build and
+   * only a few of them changed, take over its parameters: definitions, the name table and every
+   * parameter no edit can reach. Returns null (and changes nothing) otherwise.
+   */
+  private takeOverParameters(lets: readonly LetStatement[]): FastParameters | null {
+    const previous = this.memo?.parameterPhase;
+    if (!previous || previous.lets.length !== lets.length) return null;
+    const changed: number[] = [];
+    for (let i = 0; i < lets.length; i++) {
+      const now = lets[i]!;
+      const before = previous.lets[i]!;
+      if (now === before) continue;
+      if (now.name.name !== before.name.name || changed.length >= MAX_CHANGED_LETS) return null;
+      changed.push(i);
+    }
+    // The parameters an edit can reach: changed statements, cycles, and what read them.
+    const affected = new Set<string>(previous.cyclic);
+    for (const i of changed) affected.add(lets[i]!.name.name);
+    const queue = [...affected];
+    while (queue.length > 0) {
+      for (const d of previous.dependents.get(queue.pop()!) ?? []) {
+        if (!affected.has(d)) {
+          affected.add(d);
+          queue.push(d);
+        }
+      }
+    }
+    const readsBefore = new Map<string, string[]>();
+    for (const name of affected) {
+      const s = previous.paramStatements.get(name);
+      readsBefore.set(name, readsOf(s ? this.memo?.parameters.get(s) : undefined));
+    }
+    // The build before is consumed (see analyzeDocument): its tables are taken over, not copied.
+    this.paramStatements = previous.paramStatements as Map<string, LetStatement>;
+    this.definitions = previous.definitions.slice();
+    for (const i of changed) {
+      const s = lets[i]!;
+      const name = s.name.name;
+      this.paramStatements.set(name, s);
+      const definition: SymbolOccurrence = { name, kind: "parameter", span: s.name.span, isDefinition: true };
+      this.memo?.definitions.set(s, definition);
+      this.definitions[i] = definition;
+    }
+    this.symbols = this.definitions.slice();
+    this.params = previous.params as Map<string, Parameter>;
+    for (const name of affected) this.stale.add(name);
+    return { previous, affected, readsBefore };
+  }
+
+  /**
+   * The parameter step of a take-over: the references and diagnostics of every parameter that
+   * stands, then the affected ones evaluated (or replayed) in source order, as a full build would.
+   */
+  private finishParameters(fast: FastParameters): void {
+    const { previous, affected } = fast;
+    for (const [name, refs] of previous.references) if (!affected.has(name)) for (const r of refs) this.symbols.push(r);
+    for (const name of previous.noisy) {
+      if (affected.has(name)) continue;
+      const s = this.paramStatements.get(name);
+      const kept = s ? this.memo?.parameters.get(s) : undefined;
+      if (!s || !kept) continue;
+      for (const ev of kept.events) if (ev.kind === "diagnostic") this.report(copyDiagnostic(ev.diagnostic, s.span.start - ev.statementStart));
+    }
+    for (const s of previous.lets) {
+      const name = s.name.name;
+      if (affected.has(name)) this.parameter(name);
+    }
+  }
+
+  /** What this build's parameters came to, for the next build (see ParameterPhase). */
+  private parameterPhase(lets: readonly LetStatement[], fast: FastParameters | null): ParameterPhase {
+    const memo = this.memo;
+    const evaluationOf = (name: string): ParamEvaluation | undefined => {
+      const s = this.paramStatements.get(name);
+      return s ? memo?.parameters.get(s) : undefined;
+    };
+    let dependents: Map<string, Set<string>>;
+    let references: Map<string, readonly SymbolOccurrence[]>;
+    let noisy: Set<string>;
+    let redo: Iterable<string>;
+    if (fast) {
+      // Only the affected parameters can have new reads, references or diagnostics.
+      const before = fast.previous;
+      dependents = before.dependents as Map<string, Set<string>>;
+      references = before.references as Map<string, readonly SymbolOccurrence[]>;
+      noisy = before.noisy as Set<string>;
+      for (const name of fast.affected) {
+        for (const read of fast.readsBefore.get(name) ?? []) dependents.get(read)?.delete(name);
+        references.delete(name);
+        noisy.delete(name);
+      }
+      redo = fast.affected;
+    } else {
+      dependents = new Map();
+      references = new Map();
+      noisy = new Set();
+      redo = this.paramStatements.keys();
+    }
+    for (const name of redo) {
+      const e = evaluationOf(name);
+      for (const read of readsOf(e)) {
+        let set = dependents.get(read);
+        if (!set) dependents.set(read, (set = new Set()));
+        set.add(name);
+      }
+      const refs = e ? e.events.flatMap((ev) => (ev.kind === "symbol" ? [ev.occurrence] : [])) : [];
+      if (refs.length > 0) references.set(name, refs);
+      if (e?.events.some((ev) => ev.kind === "diagnostic")) noisy.add(name);
+    }
+    return {
+      lets,
+      paramStatements: this.paramStatements,
+      params: this.params,
+      dependents,
+      definitions: this.definitions,
+      references,
+      noisy,
+      cyclic: this.cyclic,
+    };
   }
 
   /** How expressions reach parameters, diagnostics and the symbol list (one for the whole build). */
@@ -305,7 +487,7 @@ class ModelBuilder {
     for (const ev of e.events) {
       if (ev.kind !== "lookup") continue;
       if (this.paramStatements.has(ev.name)) {
-        const p = this.params.get(ev.name);
+        const p = this.stale.has(ev.name) ? undefined : this.params.get(ev.name);
         if (!p || !sameValue(p.value, ev.value)) return false;
       } else if (ev.value !== undefined) return false;
     }
@@ -325,11 +507,13 @@ class ModelBuilder {
 
   private parameter(name: string): Parameter | null {
     const done = this.params.get(name);
-    if (done) return done;
+    if (done && !this.stale.has(name)) return done;
     const s = this.paramStatements.get(name);
     if (!s) return null;
     if (this.evaluating.has(name)) {
       const chain = [...this.evaluating, name];
+      // Its diagnostic is not part of any kept evaluation: the next build evaluates these again.
+      for (const n of chain) this.cyclic.add(n);
       this.report(
         diag("spw-param-cycle", s.name.span, `'${name}' depends on itself (${chain.join(" -> ")}); give one of them a value of its own.`),
       );
@@ -338,6 +522,7 @@ class ModelBuilder {
     const kept = this.memo?.parameters.get(s);
     if (kept && this.canReplay(kept)) {
       this.replay(kept, s);
+      this.stale.delete(name);
       this.params.set(name, kept.parameter);
       return kept.parameter;
     }
@@ -350,6 +535,7 @@ class ModelBuilder {
     this.evaluatingOrder.pop();
     this.evaluating.delete(name);
     const p: Parameter = { name, nameSpan: s.name.span, statementSpan: s.span, valueSpan: s.value.span, value };
+    this.stale.delete(name);
     this.params.set(name, p);
     this.memo?.parameters.set(s, { parameter: p, events });
     return p;

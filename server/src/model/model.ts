@@ -120,6 +120,10 @@ export interface SpinModel {
   /** +1 for antiferro-positive (H = +J S.S), -1 for ferro-positive (H = -J S.S). */
   readonly sign: 1 | -1;
   readonly lattice: Lattice | null;
+  /**
+   * Every parameter the file defines, by name. The order of the map is not meaningful (a build
+   * from the version before keeps the earlier order); list parameters by statement position.
+   */
   readonly parameters: ReadonlyMap<string, Parameter>;
   readonly exchanges: readonly ExchangeTerm[];
   readonly singleIon: readonly SingleIonTerm[];
@@ -127,5 +131,6 @@ export interface SpinModel {
   readonly cluster: ClusterSpec | null;
   readonly probe: ProbeSpec | null;
   readonly expect: ExpectSpec | null;
+  /** Definitions of and references to names, in no meaningful order (sort by span to list them). */
   readonly symbols: readonly SymbolOccurrence[];
 }

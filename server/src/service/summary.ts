@@ -43,7 +43,7 @@ export function analysisSummary(a: DocumentAnalysis, settings: ServiceSettings):
       const iso = [0, 1, 2].every((i) => [0, 1, 2].every((j) => (i === j ? g[i]?.[j] === g[0]?.[0] : g[i]?.[j] === 0)));
       return { name: s.name, spin: spinText(s.spin), g: iso ? formatNumber(g[0]?.[0] ?? 0) : "tensor" };
     }),
-    parameters: [...(m?.parameters.values() ?? [])].map((p) => ({ name: p.name, value: parameterValueText(a, p) ?? "(no value)" })),
+    parameters: [...(m?.parameters.values() ?? [])].sort((x, y) => x.statementSpan.start - y.statementSpan.start).map((p) => ({ name: p.name, value: parameterValueText(a, p) ?? "(no value)" })),
     exchanges: (m?.exchanges ?? []).map((e) => {
       const bonds = L ? e.bonds.map((b) => describeBond(L, b.from, b.to, b.offset)) : [];
       return {
