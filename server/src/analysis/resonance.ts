@@ -1,6 +1,7 @@
 // The zero-momentum resonance: the Zeeman energy h = muB |g^T B| in every unit of the trade, the
 // g-factor along the field, the resonance field for the probe frequency, and whether the Larmor
 // theorem pins the q = 0 line at h (physics notes section 4). Analysis layer.
+import { fmt } from "../model/build";
 import { diag, type Diagnostic } from "../base/diagnostics";
 import type { SpinModel } from "../model/model";
 import { MEV_PER_CM, MEV_PER_GHZ, MEV_PER_K, MU_B_MEV_PER_T } from "../model/units";
@@ -73,7 +74,7 @@ export function analyzeResonance(model: SpinModel, sym: SymmetryResult, family: 
   const diagnostics: Diagnostic[] = [];
   if (!p.protected && model.field) {
     const extra = dmDoublet
-      ? ` With a uniform DM vector parallel to the field the line becomes a doublet (tan θ = D/J = ${(dmDoublet.dMeV / Math.abs(dmDoublet.jMeV)).toPrecision(3)}).`
+      ? ` With a uniform DM vector parallel to the field the line becomes a doublet (tan θ = D/J = ${fmt(dmDoublet.dMeV / Math.abs(dmDoublet.jMeV))}).`
       : "";
     diagnostics.push(
       diag("spw-resonance-unprotected", model.field.span, `The q = 0 resonance is not pinned at the Zeeman energy: ${p.reason.replace(/^The q = 0 resonance is not protected because /, "")}${extra}`, {

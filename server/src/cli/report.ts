@@ -93,8 +93,8 @@ function physicsLines(a: DocumentAnalysis): string[] {
       `Zeeman energy: ${fmt(z.zeemanMeV)} meV = ${fmt(z.zeemanGHz ?? 0)} GHz = ${fmt(z.zeemanK ?? 0)} K = ${fmt(z.zeemanMeV / MEV_PER_CM)} cm^-1 (g along the field ${fmt(z.gAlongField ?? 0)}, CODATA 2018)`,
     );
   if (z.probe) out.push(`probe: ${fmt(z.probe.frequencyGHz)} GHz, resonant at ${z.probe.resonanceFieldT === null ? "no single field (g is not uniform)" : `${fmt(z.probe.resonanceFieldT)} T`}`);
-  // The reason is a whole sentence that says why; the tag in brackets is for a reader scanning.
-  out.push(`q = 0 resonance [${z.protected ? "protected" : "not protected"}]: ${z.reason}`);
+  // The reason is a whole sentence; an unprotected one names the q = 0 resonance itself.
+  out.push(z.protected ? `q = 0 resonance: protected. ${z.reason}` : z.reason);
   if (z.dmDoublet) out.push(`  uniform DM parallel to the field: the line becomes a doublet, tan θ = D/J = ${fmt(z.dmDoublet.dMeV / Math.abs(z.dmDoublet.jMeV))}`);
   out.push("predictions in the field:", ...predictionLines(p.predictions).map((l) => `  ${l}`));
   return out;

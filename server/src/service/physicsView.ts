@@ -75,7 +75,7 @@ export function physicsItems(a: DocumentAnalysis): PhysicsItem[] {
     const lines: string[] = [];
     if (res.reason) lines.push(res.reason);
     if (res.probe?.resonanceFieldT != null) lines.push(`probe ${formatNumber(res.probe.frequencyGHz)} GHz is resonant at ${formatNumber(res.probe.resonanceFieldT)} T`);
-    if (res.dmDoublet) lines.push(`DM doublet: tan θ = D/J = ${formatNumber(res.dmDoublet.dMeV / res.dmDoublet.jMeV, 4)}`);
+    if (res.dmDoublet) lines.push(`DM doublet: tan θ = D/J = ${formatNumber(res.dmDoublet.dMeV / Math.abs(res.dmDoublet.jMeV))}`);
     if (lines.length > 0) items.push({ title: "Resonance", lines });
   }
   if (p.predictions) items.push({ title: "Predictions in the field", lines: predictionLines(p.predictions, { sweep: false }) });
