@@ -97,7 +97,8 @@ type ExchangeStatement = Extract<Statement, { kind: "exchange" }>;
  * Everything the parameters of one build came to, kept so that the next build can take it over
  * and evaluate only the parameters an edit can reach: those whose statement changed, those in a
  * dependency cycle, and, transitively, every parameter whose evaluation read one of them. Kept
- * only when the `let` names raised no diagnostic (no duplicates, units or constants).
+ * only when the `let` names raised no diagnostic (no duplicates, units or constants). The build
+ * that takes it over changes its tables in place: like the parse, the build before is consumed.
  */
 interface ParameterPhase {
   /** The `let` statements in source order. */
@@ -110,8 +111,12 @@ interface ParameterPhase {
   readonly definitions: readonly SymbolOccurrence[];
   /** The references pushed by each parameter's evaluation (empty lists left out). */
   readonly references: ReadonlyMap<string, readonly SymbolOccurrence[]>;
-  /** Parameters whose evaluation reported diagnostics, and those in a dependency cycle. */
+  /** Parameters whose evaluation reported diagnostics (re-emitted, moved, while they stand). */
   readonly noisy: ReadonlySet<string>;
+  /**
+   * Parameters on or leading into a dependency cycle: always evaluated again, since the cycle's
+   * diagnostic is reported outside any kept evaluation.
+   */
   readonly cyclic: ReadonlySet<string>;
 }
 
