@@ -15,11 +15,10 @@ import {
   StreamMessageWriter,
   type ProtocolConnection,
 } from "vscode-languageserver-protocol/node";
-import { getLanguageService } from "vscode-json-languageservice";
 import { TextDocument } from "vscode-languageserver-textdocument";
 import { analyzeDocument } from "../server/src/analysis/analyze";
 import { benchmarkEditor, generatedModel } from "../server/src/service/benchmark";
-import { BENCH_JSON_SCHEMA, BENCH_JSON_SCHEMA_URI, generatedJson } from "./jsonModel";
+import { benchJsonService, generatedJson } from "./jsonModel";
 
 const ROOT = resolve(__dirname, "..");
 
@@ -197,8 +196,7 @@ async function inProcessPair(lines: number, typed: string): Promise<{ oursUs: nu
   const spwAt = spw.indexOf("let J1 = ") + "let J1 = ".length;
   const js = generatedJson(lines);
   const jsAt = js.indexOf('"value": ') + '"value": '.length;
-  const service = getLanguageService({ schemaRequestService: () => Promise.reject(new Error("no network")) });
-  service.configure({ validate: true, allowComments: false, schemas: [{ uri: BENCH_JSON_SCHEMA_URI, fileMatch: ["*.json"], schema: BENCH_JSON_SCHEMA }] });
+  const service = benchJsonService();
   const spwTexts = [spw.slice(0, spwAt) + typed + spw.slice(spwAt), spw];
   const jsTexts = [js.slice(0, jsAt) + typed + js.slice(jsAt), js];
   let previous = analyzeDocument(spw);

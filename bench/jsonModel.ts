@@ -1,7 +1,9 @@
 // A JSON document of a given number of lines holding the same kind of content as the generated
 // .spw benchmark model (named couplings with units, bonds, g, field), and a JSON Schema for it
-// with descriptions (so that validation and hover have real work). Invented benchmark data.
-import type { JSONSchema } from "vscode-json-languageservice";
+// with descriptions (so that validation and hover have real work), and the JSON language service
+// configured with it, as both the reference server and the in-process comparison use it.
+// Invented benchmark data.
+import { getLanguageService, type JSONSchema, type LanguageService } from "vscode-json-languageservice";
 
 export const BENCH_JSON_SCHEMA_URI = "spinwright-bench://model.schema.json";
 
@@ -54,4 +56,11 @@ export function generatedJson(lines: number): string {
   }
   const bonds = [1, 2, 3].map((d) => `    { "kind": "heisenberg", "coupling": "J${d}", "distance": ${d} }`);
   return `{\n  "model": "bench",\n  "spin": "1/2",\n  "couplings": [\n${couplings.join(",\n")}\n  ],\n  "bonds": [\n${bonds.join(",\n")}\n  ],\n  "g": 2.06,\n  "field": { "tesla": 3.5 }\n}\n`;
+}
+
+/** The JSON language service as the benchmark uses it: validation against BENCH_JSON_SCHEMA, no network. */
+export function benchJsonService(): LanguageService {
+  const service = getLanguageService({ schemaRequestService: () => Promise.reject(new Error("no network")) });
+  service.configure({ validate: true, allowComments: false, schemas: [{ uri: BENCH_JSON_SCHEMA_URI, fileMatch: ["*.json"], schema: BENCH_JSON_SCHEMA }] });
+  return service;
 }

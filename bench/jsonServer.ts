@@ -4,15 +4,14 @@
 // as ours (result ids included), so that both are measured through the protocol by the same
 // client. Bundled to
 // dist/benchJsonServer.js; used by bench/editor.ts only.
-import { getLanguageService, type JSONDocument } from "vscode-json-languageservice";
+import type { JSONDocument } from "vscode-json-languageservice";
 import { createConnection, DocumentDiagnosticReportKind, TextDocuments, TextDocumentSyncKind } from "vscode-languageserver/node";
 import { TextDocument } from "vscode-languageserver-textdocument";
-import { BENCH_JSON_SCHEMA, BENCH_JSON_SCHEMA_URI } from "./jsonModel";
+import { benchJsonService } from "./jsonModel";
 
 const connection = createConnection(process.stdin, process.stdout);
 const documents = new TextDocuments(TextDocument);
-const service = getLanguageService({ schemaRequestService: () => Promise.reject(new Error("no network")) });
-service.configure({ validate: true, allowComments: false, schemas: [{ uri: BENCH_JSON_SCHEMA_URI, fileMatch: ["*.json"], schema: BENCH_JSON_SCHEMA }] });
+const service = benchJsonService();
 
 // Parsed documents keyed by uri + version, as our server caches its analysis.
 const parsed = new Map<string, { version: number; json: JSONDocument }>();

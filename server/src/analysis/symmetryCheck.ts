@@ -7,7 +7,7 @@ import { bondKeyOf } from "../model/lattice";
 import type { SpinModel, SymmetryClass } from "../model/model";
 import { MU_B_MEV_PER_T } from "../model/units";
 import { dot3, mulMatVec3, scale3, transpose3 } from "../physics/linalg3";
-import { classifySymmetry, decomposeExchange, type ExchangeDecomposition, type FindingKind, type SymmetryClassification } from "../physics/symmetry";
+import { classifySymmetry, decomposeExchange, type FindingKind, type SymmetryClassification } from "../physics/symmetry";
 import type { Mat3, Vec3 } from "../physics/types";
 
 export interface BreakingTerm {
@@ -35,25 +35,13 @@ export function siteFieldsMeV(model: SpinModel): Vec3[] {
   return (model.lattice?.sites ?? []).map((s) => scale3(mulMatVec3(transpose3(s.g), B), MU_B_MEV_PER_T));
 }
 
-/**
- * Term ids (`exchange:3`, `field:0`, ...), made once per index and kept: the same string objects
- * each time, so the Maps keyed by them do not hash a new string on every keystroke.
- */
-const termIds = new Map<string, string[]>();
-function termId(prefix: "exchange" | "single-ion" | "field", index: number): string {
-  let list = termIds.get(prefix);
-  if (!list) termIds.set(prefix, (list = []));
-  while (list.length <= index) list.push(`${prefix}:${list.length}`);
-  return list[index]!;
-}
-
 export function analyzeSymmetry(model: SpinModel): SymmetryResult {
   const spans = new Map<string, Span>();
   const exchangeOf = new Map<string, (typeof model.exchanges)[number]>();
   const pairs = new Map<string, number>();
   const bonds: { id: string; matrix: Mat3; sites: [number, number] }[] = [];
   for (const term of model.exchanges) {
-    const id = termId("exchange", term.index);
+    const id = `exchange:${term.index}`;
     spans.set(id, term.span);
     exchangeOf.set(id, term);
     for (const b of term.bonds) {
@@ -69,27 +57,24 @@ export function analyzeSymmetry(model: SpinModel): SymmetryResult {
   }
   const sites = model.lattice?.sites ?? [];
   const singleIon = model.singleIon.map((t, k) => {
-    const id = termId("single-ion", k);
+    const id = `single-ion:${k}`;
     spans.set(id, t.span);
     return { id, matrix: t.matrixMeV, spin: sites[t.site]?.spin ?? 0.5, site: t.site };
   });
   const fields = siteFieldsMeV(model).map((vector, s) => {
-    const id = termId("field", s);
+    const id = `field:${s}`;
     spans.set(id, sites[s]?.gSpan ?? model.field?.span ?? model.nameSpan);
     return { id, vector, site: s };
   });
   const c = classifySymmetry({ bonds, singleIon, fields });
   const breaking: BreakingTerm[] = [];
-  // Statement starts already named, per kind of finding.
-  const seen = new Map<FindingKind, Set<number>>();
-  const parts = new Map<object, ExchangeDecomposition>();
+  const seen = new Set<string>();
   const carries = (id: string, kind: FindingKind): boolean => {
     // Findings are per bond pair; name only the terms that carry the breaking part themselves.
     if (!id.startsWith("exchange:")) return true;
     const term = exchangeOf.get(id);
     if (!term) return false;
-    let d = parts.get(term);
-    if (!d) parts.set(term, (d = decomposeExchange(term.matrixMeV)));
+    const d = decomposeExchange(term.matrixMeV);
     const tol = 1e-12 * Math.max(1e-300, Math.abs(d.isotropic) + d.norms.dm + d.norms.anisotropic);
     return kind === "dm" ? d.norms.dm > tol : d.norms.anisotropic > tol;
   };
@@ -98,10 +83,9 @@ export function analyzeSymmetry(model: SpinModel): SymmetryResult {
       if (!carries(id, f.kind)) continue;
       const span = spans.get(id);
       if (!span) continue;
-      let starts = seen.get(f.kind);
-      if (!starts) seen.set(f.kind, (starts = new Set()));
-      if (starts.has(span.start)) continue;
-      starts.add(span.start);
+      const key = `${f.kind}@${span.start}`;
+      if (seen.has(key)) continue;
+      seen.add(key);
       breaking.push({ kind: f.kind, span, residual: f.residual, axis: f.axis, consequence: f.detail, magnitudeMeV: f.magnitude });
     }
   }

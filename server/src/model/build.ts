@@ -879,27 +879,25 @@ class ModelBuilder {
     s: ExchangeStatement,
     seen: Map<string, { span: Span; kind: ExchangeKind }>,
   ): { kind: ExchangeKind; written: { matrix: Mat3; scale: number }; bonds: Bond[]; requests: BondRequest[] | null } | null {
-    {
-      const kindName = s.exchangeKind.name;
-      if (!(EXCHANGE_KINDS as readonly string[]).includes(kindName)) {
-        const suggestions = closest(kindName, [...EXCHANGE_KINDS]);
-        this.report(
-          diag(
-            "spw-kind-unknown",
-            s.exchangeKind.span,
-            `Unknown exchange kind '${kindName}'${suggestions[0] ? `; did you mean ${suggestions[0]}?` : "."} Kinds: heisenberg(J), xxz(J, delta), xyz(Jx, Jy, Jz), dm(D, (x, y, z)), matrix([[...]]).`,
-            { data: { name: kindName, suggestions } },
-          ),
-        );
-        return null;
-      }
-      const kind = kindName as ExchangeKind;
-      const written = this.exchangeMatrix(kind, s);
-      const requests = this.bondRequests(s);
-      const bonds = this.lattice && requests ? this.placeBonds(kind, requests, this.lattice, seen) : [];
-      if (!written) return null;
-      return { kind, written, bonds, requests };
+    const kindName = s.exchangeKind.name;
+    if (!(EXCHANGE_KINDS as readonly string[]).includes(kindName)) {
+      const suggestions = closest(kindName, [...EXCHANGE_KINDS]);
+      this.report(
+        diag(
+          "spw-kind-unknown",
+          s.exchangeKind.span,
+          `Unknown exchange kind '${kindName}'${suggestions[0] ? `; did you mean ${suggestions[0]}?` : "."} Kinds: heisenberg(J), xxz(J, delta), xyz(Jx, Jy, Jz), dm(D, (x, y, z)), matrix([[...]]).`,
+          { data: { name: kindName, suggestions } },
+        ),
+      );
+      return null;
     }
+    const kind = kindName as ExchangeKind;
+    const written = this.exchangeMatrix(kind, s);
+    const requests = this.bondRequests(s);
+    const bonds = this.lattice && requests ? this.placeBonds(kind, requests, this.lattice, seen) : [];
+    if (!written) return null;
+    return { kind, written, bonds, requests };
   }
 
   private exchangeMatrix(kind: ExchangeKind, s: Extract<Statement, { kind: "exchange" }>): { matrix: Mat3; scale: number } | null {

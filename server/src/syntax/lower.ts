@@ -63,7 +63,8 @@ function nameRef(t: IToken | undefined): NameRef | undefined {
 }
 
 function byOffset<T extends { span: Span } | IToken>(items: T[]): T[] {
-  if (items.length < 2) return items.length === 0 ? NO_ELEMENTS : [...items];
+  // Callers only read the result: a list of fewer than two is already in order.
+  if (items.length < 2) return items;
   const key = (x: T): number => ("span" in x ? x.span.start : x.startOffset);
   return [...items].sort((a, b) => key(a) - key(b));
 }
@@ -431,7 +432,7 @@ export function lowerPiece(cst: CstNode, text: string): { statements: Statement[
       if (s) lowered.push(s);
     }
   }
-  const statements = lowered.length < 2 ? lowered : byOffset(lowered);
+  const statements = byOffset(lowered);
   reportJunk(statements, text, diagnostics);
   return { statements, diagnostics };
 }
