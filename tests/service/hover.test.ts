@@ -182,3 +182,35 @@ describe("hover on the field and the symmetry claim: predictions and computed sy
     expect(ferro).toMatch(/not frustrated\): 2 of its 3 bonds/);
   });
 });
+
+describe("hover after edits", () => {
+  // The field hover text is kept with the physics summary the analysis hands over from the
+  // version before; after each edit it must read exactly as on a fresh analysis of the same text.
+  it("the field hover equals the fresh one along a chain of edits", async () => {
+    const { analyzeDocument } = await import("../../server/src/analysis/analyze");
+    const base = CHAIN.replace("$0", "");
+    const steps: [string, string][] = [
+      ["a space elsewhere", "\n  # a note\n"],
+      ["a stronger field", ""],
+      ["another g-tensor", ""],
+      ["a comment again", "\n  # another note\n"],
+    ];
+    let text = base;
+    let previous = analyzeDocument(text);
+    const hovers: string[] = [];
+    for (const [what, insert] of steps) {
+      if (what === "a stronger field") text = text.replace(/field ([0-9.]+)/, (_m, v: string) => `field ${Number(v) + 1.5}`);
+      else if (what === "another g-tensor") text = /\n\s*g /.test(text) ? text.replace(/(\n\s*g [A-Za-z0-9_]+ = )([0-9.]+)/, (_m, p: string, v: string) => `${p}${Number(v) + 0.1}`) : text.replace(/\n\}\s*$/, "\n  g all = 2.2\n}\n");
+      else text = text.replace(/\n\}\s*$/, `${insert}}\n`);
+      const at = text.indexOf("field ") + 1;
+      const incremental = analyzeDocument(text, { previous });
+      const fresh = analyzeDocument(text);
+      const h = doHover(incremental, at)?.markdown;
+      expect(h, what).toBe(doHover(fresh, at)?.markdown);
+      hovers.push(h ?? "");
+      previous = incremental;
+    }
+    // The field and g edits change the text: the cache did not hand out an old one.
+    expect(new Set(hovers).size).toBeGreaterThanOrEqual(3);
+  });
+});

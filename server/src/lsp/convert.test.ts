@@ -3,7 +3,8 @@
 // `spinwright` settings are read defensively.
 import { describe, expect, it } from "vitest";
 import { analyzeDocument } from "../analysis/analyze";
-import { plainFromSnippet, toLspDiagnostic } from "./convert";
+import { generatedModel } from "../service/benchmark";
+import { plainFromSnippet, sameAsLsp, toLspDiagnostic } from "./convert";
 import { DEFAULT_SERVER_SETTINGS, readSettings } from "./server";
 
 describe("toLspDiagnostic", () => {
@@ -17,6 +18,42 @@ describe("toLspDiagnostic", () => {
     expect(lsp.range).toEqual({ start: { line: 4, character: 2 }, end: { line: 4, character: 22 } });
     expect(lsp.codeDescription?.href).toBe("file:///docs/diagnostics.md#spw-single-ion-constant");
     expect(toLspDiagnostic(a, "file:///m.spw", d, null).codeDescription).toBeUndefined();
+  });
+});
+
+describe("sameAsLsp", () => {
+  // The cheap check the server makes before converting and comparing a version's diagnostics: it
+  // must agree with the full comparison (every diagnostic converted and serialized) edit by edit.
+  it("agrees with comparing the converted diagnostics in full", () => {
+    const uri = "file:///bench.spw";
+    const docs = "file:///docs/diagnostics.md";
+    const base = generatedModel(60);
+    const at = (needle: string): number => base.indexOf(needle) + needle.length;
+    const edits: [string, string][] = [
+      ["a space in the first coupling", base.slice(0, at("let J1 = ")) + " " + base.slice(at("let J1 = "))],
+      ["a line break at the top", base.slice(0, at("spin 1/2")) + "\n" + base.slice(at("spin 1/2"))],
+      ["a digit that changes no message", base.replace("let J1 = 10.37 K", "let J1 = 10.371 K")],
+      ["a claim that changes a message", base.replace("expect none", "expect su2")],
+      ["a comment", base.replace("# coupling set 2", "# coupling set two")],
+    ];
+    const full = (a: ReturnType<typeof analyzeDocument>): string => JSON.stringify(a.diagnostics.map((d) => toLspDiagnostic(a, uri, d, docs)));
+    const outcomes: boolean[] = [];
+    for (const [what, text] of edits) {
+      const before = analyzeDocument(base);
+      const report = { core: before.diagnostics, items: before.diagnostics.map((d) => toLspDiagnostic(before, uri, d, docs)) };
+      const expected = full(before);
+      const after = analyzeDocument(text, { previous: before });
+      const same = sameAsLsp(after, uri, docs, report);
+      expect(same, what).toBe(full(after) === expected);
+      outcomes.push(same);
+    }
+    // Both answers occur, and at least one diagnostic was carried over as the same object.
+    expect(outcomes).toContain(true);
+    expect(outcomes).toContain(false);
+    const before = analyzeDocument(base);
+    const kept = before.diagnostics;
+    const after = analyzeDocument(edits[0]![1], { previous: before });
+    expect(after.diagnostics.some((d) => kept.includes(d))).toBe(true);
   });
 });
 

@@ -47,6 +47,46 @@ export function toLspDiagnostic(a: DocumentAnalysis, uri: string, d: Diagnostic,
   return out;
 }
 
+/** The diagnostics of an analysis as LSP, with the service diagnostics they were made from. */
+export interface LspReport {
+  readonly core: readonly Diagnostic[];
+  readonly items: readonly LspDiagnostic[];
+}
+
+function sameRange(a: DocumentAnalysis, span: Span, r: Range): boolean {
+  const s = a.lines.positionAt(span.start);
+  if (s.line !== r.start.line || s.character !== r.start.character) return false;
+  const e = a.lines.positionAt(span.end);
+  return e.line === r.end.line && e.character === r.end.character;
+}
+
+/**
+ * Whether `a`'s diagnostics read in LSP exactly as `before` (for the same uri and documentation
+ * link): most keystrokes leave them so. A service diagnostic that is the very object converted
+ * before (kept by the analysis from the version before) has the same code, message, related
+ * messages, tags and data, so only its ranges are checked; any other is converted and compared
+ * in full.
+ */
+export function sameAsLsp(a: DocumentAnalysis, uri: string, docsUri: string | null, before: LspReport): boolean {
+  const core = a.diagnostics;
+  if (core.length !== before.core.length) return false;
+  for (let i = 0; i < core.length; i++) {
+    const d = core[i] as Diagnostic;
+    const item = before.items[i] as LspDiagnostic;
+    if (d !== before.core[i]) {
+      if (JSON.stringify(toLspDiagnostic(a, uri, d, docsUri)) !== JSON.stringify(item)) return false;
+      continue;
+    }
+    if (!sameRange(a, d.span, item.range)) return false;
+    const related = d.related ?? [];
+    for (let k = 0; k < related.length; k++) {
+      const r = item.relatedInformation?.[k];
+      if (!r || !sameRange(a, (related[k] as { span: Span }).span, r.location.range)) return false;
+    }
+  }
+  return true;
+}
+
 export function toLspEdits(a: DocumentAnalysis, edits: readonly TextEdit[]): LspTextEdit[] {
   return edits.map((e) => ({ range: toRange(a, e.span), newText: e.newText }));
 }

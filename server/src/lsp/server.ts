@@ -27,7 +27,7 @@ import { exportCluster } from "../model/exportCluster";
 import type { ExactResult } from "../physics/ed/solve";
 import { renderPlotSvg, type PlotPole } from "../render/plot";
 import * as service from "../service/index";
-import { toDocumentSymbol, toLspCodeAction, toLspCompletion, toLspDiagnostic, toLspEdits, toRange } from "./convert";
+import { sameAsLsp, toDocumentSymbol, toLspCodeAction, toLspCompletion, toLspDiagnostic, toLspEdits, toRange, type LspReport } from "./convert";
 import { AnalysisCache, Debouncer, type CachedAnalysis } from "./documents";
 
 export const SERVER_NAME = "spinwright";
@@ -264,8 +264,9 @@ export function startServer(connection: Connection, runtime: ServerRuntime = {})
 
   // The last diagnostics sent for each document, as JSON, and their result id: a new version
   // whose diagnostics read the same (most keystrokes) keeps the id, so a client that sends it back
-  // gets "unchanged" instead of the whole list again.
-  const lastReports = new Map<string, { version: number; json: string; resultId: string; items: ReturnType<typeof toLspDiagnostic>[] }>();
+  // gets "unchanged" instead of the whole list again. Whether they read the same is first asked
+  // cheaply of the service diagnostics they were made from (see sameAsLsp).
+  const lastReports = new Map<string, LspReport & { version: number; json: string; resultId: string }>();
   const emptyReport: DocumentDiagnosticReport = { kind: DocumentDiagnosticReportKind.Full, items: [] };
   connection.languages.diagnostics.on(
     guard("diagnostics", emptyReport, (params): DocumentDiagnosticReport => {
@@ -276,13 +277,16 @@ export function startServer(connection: Connection, runtime: ServerRuntime = {})
       let last = lastReports.get(uri);
       if (!last || last.version !== entry.version) {
         const a = entry.analysis;
-        const items = a ? a.diagnostics.map((d) => toLspDiagnostic(a, uri, d, docsUri)) : [];
-        const json = JSON.stringify(items);
-        last = { version: entry.version, json, resultId: last && last.json === json ? last.resultId : entry.resultId, items };
+        if (a && last && sameAsLsp(a, uri, docsUri, last)) last = { ...last, version: entry.version, core: a.diagnostics };
+        else {
+          const items = a ? a.diagnostics.map((d) => toLspDiagnostic(a, uri, d, docsUri)) : [];
+          const json = JSON.stringify(items);
+          last = { version: entry.version, json, resultId: last && last.json === json ? last.resultId : entry.resultId, core: a ? a.diagnostics : [], items };
+        }
         lastReports.set(uri, last);
       }
       if (params.previousResultId === last.resultId) return { kind: DocumentDiagnosticReportKind.Unchanged, resultId: last.resultId };
-      return { kind: DocumentDiagnosticReportKind.Full, resultId: last.resultId, items: last.items };
+      return { kind: DocumentDiagnosticReportKind.Full, resultId: last.resultId, items: [...last.items] };
     }),
   );
 

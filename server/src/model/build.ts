@@ -168,6 +168,22 @@ interface ExchangeEvaluation {
   readonly symbols: readonly SymbolOccurrence[];
   readonly written: { readonly matrix: Mat3; readonly scale: number };
   readonly requests: readonly BondRequest[];
+  /** The term this evaluation made last: handed out again while it reads the same. */
+  term: ExchangeTerm;
+}
+
+/** Whether a term's matrix was made with the convention sign `sign` (the written matrix is the same). */
+function sameSign(t: ExchangeTerm, sign: 1 | -1): boolean {
+  const w = t.writtenMatrixMeV;
+  const m = t.matrixMeV;
+  for (let i = 0; i < 3; i++) for (let j = 0; j < 3; j++) if (!Object.is(m[i]![j], sign * w[i]![j]!)) return false;
+  return true;
+}
+
+function sameBonds(a: readonly Bond[], b: readonly Bond[]): boolean {
+  if (a.length !== b.length) return false;
+  for (let k = 0; k < a.length; k++) if (a[k] !== b[k]) return false;
+  return true;
 }
 
 /** Equal values: the same numbers (NaN equal to NaN, 0 unequal to -0), shape and units. */
@@ -835,20 +851,28 @@ class ModelBuilder {
     const previousLattice = memo?.lattice ?? null;
     const latticeSame = memo !== null && sameLatticeForBonds(previousLattice, lattice);
     if (memo) memo.lattice = lattice;
-    const push = (s: ExchangeStatement, kind: ExchangeKind, written: { matrix: Mat3; scale: number }, bonds: Bond[]): void => {
+    /** Adds the term, or `before` (the term this statement made last time) when it reads the same. */
+    const push = (s: ExchangeStatement, kind: ExchangeKind, written: { matrix: Mat3; scale: number }, bonds: Bond[], before: ExchangeTerm | null = null): ExchangeTerm => {
       const first = s.args[0];
-      out.push({
-        index: out.length,
-        kind,
-        span: s.span,
-        kindSpan: s.exchangeKind.span,
-        argsSpan: s.argsSpan,
-        couplingName: first && first.kind === "name" && this.paramStatements.has(first.name) ? first.name : null,
-        writtenMatrixMeV: written.matrix,
-        matrixMeV: scaleMat3(written.matrix, sign),
-        scaleMeV: written.scale,
-        bonds,
-      });
+      const couplingName = first && first.kind === "name" && this.paramStatements.has(first.name) ? first.name : null;
+      // The same object when nothing differs keeps the physics memo's comparison to one check.
+      const term: ExchangeTerm =
+        before && before.index === out.length && before.kind === kind && before.couplingName === couplingName && before.writtenMatrixMeV === written.matrix && sameSign(before, sign) && sameBonds(before.bonds, bonds)
+          ? before
+          : {
+              index: out.length,
+              kind,
+              span: s.span,
+              kindSpan: s.exchangeKind.span,
+              argsSpan: s.argsSpan,
+              couplingName,
+              writtenMatrixMeV: written.matrix,
+              matrixMeV: scaleMat3(written.matrix, sign),
+              scaleMeV: written.scale,
+              bonds,
+            };
+      out.push(term);
+      return term;
     };
     for (const s of this.block.statements) {
       if (s.kind !== "exchange") continue;
@@ -856,7 +880,7 @@ class ModelBuilder {
       if (kept && lattice && kept.lattice === previousLattice && this.canReplay(kept)) {
         kept.lattice = lattice;
         for (const occurrence of kept.symbols) this.symbols.push(occurrence);
-        push(s, s.exchangeKind.name as ExchangeKind, kept.written, this.placeBonds(s.exchangeKind.name as ExchangeKind, kept.requests, lattice, seen));
+        kept.term = push(s, s.exchangeKind.name as ExchangeKind, kept.written, this.placeBonds(s.exchangeKind.name as ExchangeKind, kept.requests, lattice, seen), kept.term);
         continue;
       }
       const diagnosticsBefore = this.diagnostics.length;
@@ -866,9 +890,9 @@ class ModelBuilder {
       const built = this.buildExchange(s, seen);
       this.recording.pop();
       if (!built) continue;
-      push(s, built.kind, built.written, built.bonds);
+      const term = push(s, built.kind, built.written, built.bonds);
       if (memo && lattice && built.requests && this.diagnostics.length === diagnosticsBefore) {
-        memo.exchanges.set(s, { lattice, events, symbols: this.symbols.slice(symbolsBefore), written: built.written, requests: built.requests });
+        memo.exchanges.set(s, { lattice, events, symbols: this.symbols.slice(symbolsBefore), written: built.written, requests: built.requests, term });
       } else memo?.exchanges.delete(s);
     }
     return out;

@@ -136,8 +136,25 @@ function siteHover(model: SpinModel, name: string): string {
   return lines.join("\n");
 }
 
-/** The Zeeman energy of every site in the file's field, and the sweep's end if there is one. */
+/**
+ * Field hovers by physics summary. The analysis hands over the summary of the version before only
+ * when the model reads the same to the physics (analysis/physics.ts: every model field but the
+ * parameters, symbols and spans), and the field hover reads nothing else: the field, the sites'
+ * names and g-tensors, and the summary. So one summary means one text, and typing elsewhere in a
+ * file does not build the text again. (A test holds hovers after edits to fresh analyses.)
+ */
+const fieldHovers = new WeakMap<object, string | null>();
+
 function fieldHover(a: DocumentAnalysis, model: SpinModel): string | null {
+  const physics = a.physics;
+  if (physics && fieldHovers.has(physics)) return fieldHovers.get(physics) ?? null;
+  const text = fieldHoverText(a, model);
+  if (physics) fieldHovers.set(physics, text);
+  return text;
+}
+
+/** The Zeeman energy of every site in the file's field, and the sweep's end if there is one. */
+function fieldHoverText(a: DocumentAnalysis, model: SpinModel): string | null {
   const field = model.field;
   if (!field) return null;
   const out = [

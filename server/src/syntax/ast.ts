@@ -177,11 +177,10 @@ export function forEachExprSpan(e: Expr, visit: (s: Span) => void): void {
 /** Calls `visit` once on every span object of a statement's tree. */
 export function forEachSpan(s: Statement, visit: (span: Span) => void): void {
   visit(s.span);
-  const x = (e: Expr): void => forEachExprSpan(e, visit);
   switch (s.kind) {
     case "spin":
       if (s.site) visit(s.site.span);
-      x(s.value);
+      forEachExprSpan(s.value, visit);
       break;
     case "convention":
       visit(s.value.span);
@@ -194,30 +193,30 @@ export function forEachSpan(s: Statement, visit: (span: Span) => void): void {
       for (const v of s.vectors) {
         visit(v.span);
         visit(v.name.span);
-        x(v.value);
+        forEachExprSpan(v.value, visit);
       }
       for (const site of s.sites) {
         visit(site.span);
         visit(site.name.span);
-        x(site.position);
-        if (site.spin) x(site.spin);
+        forEachExprSpan(site.position, visit);
+        if (site.spin) forEachExprSpan(site.spin, visit);
       }
       break;
     case "let":
       visit(s.name.span);
-      x(s.value);
+      forEachExprSpan(s.value, visit);
       break;
     case "exchange":
       visit(s.exchangeKind.span);
       visit(s.argsSpan);
-      for (const a of s.args) x(a);
+      for (const a of s.args) forEachExprSpan(a, visit);
       for (const b of s.bonds) {
         visit(b.span);
         if (b.kind === "shell") visit(b.shellSpan);
         else {
           visit(b.from.span);
           visit(b.to.span);
-          if (b.offset) x(b.offset);
+          if (b.offset) forEachExprSpan(b.offset, visit);
         }
       }
       break;
@@ -226,34 +225,34 @@ export function forEachSpan(s: Statement, visit: (span: Span) => void): void {
       for (const c of s.clauses) {
         visit(c.span);
         visit(c.name.span);
-        x(c.value);
+        forEachExprSpan(c.value, visit);
       }
-      if (s.axis) x(s.axis);
+      if (s.axis) forEachExprSpan(s.axis, visit);
       break;
     case "g":
       visit(s.site.span);
-      x(s.value);
+      forEachExprSpan(s.value, visit);
       break;
     case "field":
-      x(s.magnitude);
-      if (s.direction) x(s.direction);
+      forEachExprSpan(s.magnitude, visit);
+      if (s.direction) forEachExprSpan(s.direction, visit);
       if (s.sweep) {
         visit(s.sweep.span);
-        x(s.sweep.from);
-        x(s.sweep.to);
-        if (s.sweep.steps) x(s.sweep.steps);
+        forEachExprSpan(s.sweep.from, visit);
+        forEachExprSpan(s.sweep.to, visit);
+        if (s.sweep.steps) forEachExprSpan(s.sweep.steps, visit);
       }
       break;
     case "cluster":
-      x(s.size);
+      forEachExprSpan(s.size, visit);
       if (s.boundary) visit(s.boundary.span);
       break;
     case "probe":
-      x(s.value);
+      forEachExprSpan(s.value, visit);
       break;
     case "expect":
       visit(s.claim.span);
-      if (s.axis) x(s.axis);
+      if (s.axis) forEachExprSpan(s.axis, visit);
       break;
     case "junk":
       break;

@@ -57,6 +57,12 @@ interface PieceResult {
   readonly diagnostics: readonly Diagnostic[];
   readonly syntaxErrors: readonly PieceSyntaxError[];
   readonly statements: readonly Statement[];
+  /**
+   * Every span object of `statements`, listed once when the piece is parsed: moving the piece
+   * shifts these without walking the trees (an edit near the top of a file moves every statement
+   * after it, and a walk would visit each node of each of them).
+   */
+  readonly spans: readonly Span[];
   /** Where `statements` sit: the piece's offset in the file that placed it last. */
   start: number;
   /** The piece's last token, relative to its start (lines from 1): where a missing '}' belongs. */
@@ -165,6 +171,7 @@ function parsePiece(text: string): PieceResult {
     diagnostics,
     syntaxErrors,
     statements: lowered.statements,
+    spans: spansOf(lowered.statements),
     start: 0,
     lastToken: lastOf(scan.tokens),
     generation: -1,
@@ -178,16 +185,26 @@ function lastOf(tokens: readonly SpwToken[]): TokenRef | null {
 
 /** A second, independent copy of a piece's parse (the same text twice in one file). */
 function clonePiece(r: PieceResult): PieceResult {
-  return { ...r, statements: r.statements.map((s) => copyStatement(s, 0)), generation: -1 };
+  const statements = r.statements.map((s) => copyStatement(s, 0));
+  return { ...r, statements, spans: spansOf(statements), generation: -1 };
 }
 
-function moveStatements(statements: readonly Statement[], delta: number): void {
-  const move = (span: Span): void => {
-    const m = span as { start: number; end: number };
+function spansOf(statements: readonly Statement[]): Span[] {
+  const spans: Span[] = [];
+  const add = (span: Span): void => {
+    spans.push(span);
+  };
+  for (const st of statements) forEachSpan(st, add);
+  return spans;
+}
+
+/** Moves a piece's statements by `delta` characters, in place. */
+function moveSpans(spans: readonly Span[], delta: number): void {
+  for (let i = 0; i < spans.length; i++) {
+    const m = spans[i] as { start: number; end: number };
     m.start += delta;
     m.end += delta;
-  };
-  for (const st of statements) forEachSpan(st, move);
+  }
 }
 
 function characterDiagnostic(text: string, offset: number, length: number, delta = 0): Diagnostic {
@@ -312,7 +329,7 @@ class SpwParse implements ParsedFile {
       if (result.generation === this.generation) result = clonePiece(result);
       result.generation = this.generation;
       if (result.start !== piece.start) {
-        moveStatements(result.statements, piece.start - result.start);
+        moveSpans(result.spans, piece.start - result.start);
         result.start = piece.start;
       }
       piece.result = result;
