@@ -30,9 +30,10 @@ export function termLabel(term: ExchangeTerm): string {
 }
 
 export function summarizeCouplings(model: SpinModel): CouplingSummary[] {
-  const scale = Math.max(1e-300, ...model.exchanges.map((t) => Math.abs(decomposeExchange(t.matrixMeV).isotropic) + decomposeExchange(t.matrixMeV).norms.dm));
-  return model.exchanges.map((t) => {
-    const d = decomposeExchange(t.matrixMeV);
+  const parts = model.exchanges.map((t) => decomposeExchange(t.matrixMeV));
+  const scale = Math.max(1e-300, ...parts.map((d) => Math.abs(d.isotropic) + d.norms.dm));
+  return model.exchanges.map((t, k) => {
+    const d = parts[k]!;
     const tol = 1e-12 * scale;
     const character: CouplingCharacter =
       Math.abs(d.isotropic) > tol ? (d.isotropic > 0 ? "antiferro" : "ferro") : d.norms.dm > tol ? "antisymmetric" : "zero";

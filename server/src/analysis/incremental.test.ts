@@ -159,4 +159,47 @@ describe("incremental analysis", () => {
     const edited = analyzeDocument(base.replace("let J = 10 K", "let J = 9 K"), { previous: analyzeDocument(base) });
     expect(edited.diagnostics.map((d) => d.code)).toEqual(expect.arrayContaining(["spw-param-cycle", "spw-unit-unknown"]));
   });
+
+  it("hands out the lattice and the exchange terms of the version before while they read the same, and new ones otherwise", () => {
+    const base = [
+      'model "kept-objects" {',
+      "  spin 1/2",
+      "  lattice chain sites Cu",
+      "  let J = 10 K",
+      "  let D = 0.1 * J",
+      "  exchange heisenberg(J) on Cu -> Cu + (1)",
+      "  exchange dm(D, (0, 0, 1)) on Cu -> Cu + (1)",
+      "  exchange heisenberg(J) on Cu -> Cu + (2)",
+      "  g Cu = 2.1",
+      "  field 1 T along (0, 0, 1)",
+      "}",
+      "",
+    ].join("\n");
+    const before = analyzeDocument(base);
+    const next = (text: string, previous: DocumentAnalysis): DocumentAnalysis => {
+      const a = analyzeDocument(text, { previous });
+      expectSameAnalysis(a, analyzeDocument(text));
+      return a;
+    };
+    const terms = before.model?.exchanges ?? [];
+    const lattice = before.model?.lattice;
+    expect(terms).toHaveLength(3);
+    // A comment above everything moves every statement: the same objects, moved in place.
+    const moved = next(base.replace("  spin 1/2", "  # a note\n  spin 1/2"), before);
+    expect(moved.model?.lattice).toBe(lattice);
+    moved.model?.exchanges.forEach((t, k) => expect(t).toBe(terms[k]));
+    // A new value of J: the two terms that read it are new, the DM term follows D = 0.1 * J too.
+    const valued = next(moved.text.replace("let J = 10 K", "let J = 11 K"), moved);
+    expect(valued.model?.lattice).toBe(lattice);
+    expect(valued.model?.exchanges.some((t) => terms.includes(t))).toBe(false);
+    // A new g-tensor: a new lattice (the terms' bonds read the same, so they stay).
+    const kept = valued.model?.exchanges ?? [];
+    const gChanged = next(valued.text.replace("g Cu = 2.1", "g Cu = 2.2"), valued);
+    expect(gChanged.model?.lattice).not.toBe(lattice);
+    expect(gChanged.model?.lattice?.sites[0]?.g[0][0]).toBeCloseTo(2.2, 12);
+    gChanged.model?.exchanges.forEach((t, k) => expect(t).toBe(kept[k]));
+    // The convention flips every matrix: new terms.
+    const flipped = next(gChanged.text.replace("  spin 1/2", "  spin 1/2\n  convention ferro-positive"), gChanged);
+    expect(flipped.model?.exchanges.some((t) => kept.includes(t))).toBe(false);
+  });
 });

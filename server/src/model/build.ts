@@ -180,6 +180,23 @@ function sameSign(t: ExchangeTerm, sign: 1 | -1): boolean {
   return true;
 }
 
+function same3(x: Vec3, y: Vec3): boolean {
+  return Object.is(x[0], y[0]) && Object.is(x[1], y[1]) && Object.is(x[2], y[2]);
+}
+
+/** The same lattice in every field, with the very same span objects. */
+function sameLattice(a: Lattice, b: Lattice): boolean {
+  if (a.preset !== b.preset || a.span !== b.span || a.dimension !== b.dimension || a.vectors.length !== b.vectors.length || a.sites.length !== b.sites.length) return false;
+  for (let k = 0; k < a.vectors.length; k++) if (!same3(a.vectors[k]!, b.vectors[k]!)) return false;
+  for (let k = 0; k < a.sites.length; k++) {
+    const x = a.sites[k]!;
+    const y = b.sites[k]!;
+    if (x.index !== y.index || x.name !== y.name || x.nameSpan !== y.nameSpan || x.gSpan !== y.gSpan || !Object.is(x.spin, y.spin) || !same3(x.position, y.position)) return false;
+    for (let i = 0; i < 3; i++) if (!same3(x.g[i]!, y.g[i]!)) return false;
+  }
+  return true;
+}
+
 function sameBonds(a: readonly Bond[], b: readonly Bond[]): boolean {
   if (a.length !== b.length) return false;
   for (let k = 0; k < a.length; k++) if (a[k] !== b[k]) return false;
@@ -200,7 +217,6 @@ function sameLatticeForBonds(a: Lattice | null, b: Lattice | null): boolean {
   if (!a || !b) return false;
   if (a === b) return true;
   if (a.dimension !== b.dimension || a.vectors.length !== b.vectors.length || a.sites.length !== b.sites.length) return false;
-  const same3 = (x: Vec3, y: Vec3): boolean => x[0] === y[0] && x[1] === y[1] && x[2] === y[2];
   for (let k = 0; k < a.vectors.length; k++) if (!same3(a.vectors[k]!, b.vectors[k]!)) return false;
   for (let k = 0; k < a.sites.length; k++) {
     const sa = a.sites[k]!;
@@ -776,7 +792,11 @@ class ModelBuilder {
     const lattice: Lattice = { preset, span: s.span, vectors, sites: result, dimension: vectors.length };
     this.lattice = lattice;
     this.applyG(result);
-    return { ...lattice, sites: result };
+    // The lattice of the build before when this one reads the same, spans included (the same
+    // objects, which the parse moves in place): what is kept by lattice (neighbour shells, the
+    // exchange statements' bonds) stays kept, and the physics memo's comparison is one check.
+    const before = this.memo?.lattice ?? null;
+    return before && sameLattice(before, lattice) ? before : lattice;
   }
 
   /** Resolves a site name (recording the reference); reports and returns null if unknown. */
