@@ -85,4 +85,21 @@ describe("Debouncer", () => {
     vi.advanceTimersByTime(60);
     expect(runs).toEqual(["b"]);
   });
+
+  it("waits for a quiet spell of the full delay however many keystrokes moved it", () => {
+    vi.useFakeTimers();
+    const runs: number[] = [];
+    const d = new Debouncer(50);
+    for (let k = 0; k < 10; k++) {
+      d.schedule("u", () => runs.push(k));
+      vi.advanceTimersByTime(20);
+    }
+    // The last schedule was 20 ms ago: 30 more to go.
+    vi.advanceTimersByTime(29);
+    expect(runs).toEqual([]);
+    vi.advanceTimersByTime(1);
+    expect(runs).toEqual([9]);
+    vi.advanceTimersByTime(200);
+    expect(runs).toEqual([9]);
+  });
 });

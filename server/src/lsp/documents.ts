@@ -57,30 +57,45 @@ export class AnalysisCache {
   }
 }
 
-/** Runs one job per document after `delayMs` of quiet; a newer schedule replaces the older. */
+/**
+ * Runs one job per document after `delayMs` of quiet; a newer schedule replaces the older. One
+ * timer per quiet spell: a keystroke only moves the due time, and a timer that fires early sets
+ * itself again for the rest (clearing and setting a timer on every keystroke costs more than the
+ * rest of a small keystroke's bookkeeping).
+ */
 export class Debouncer {
-  private readonly timers = new Map<string, ReturnType<typeof setTimeout>>();
+  private readonly pending = new Map<string, { job: () => void; due: number; timer: ReturnType<typeof setTimeout> }>();
 
   constructor(private readonly delayMs: number) {}
 
   schedule(uri: string, job: () => void): void {
-    this.cancel(uri);
-    this.timers.set(
-      uri,
-      setTimeout(() => {
-        this.timers.delete(uri);
-        job();
-      }, this.delayMs),
-    );
+    const due = Date.now() + this.delayMs;
+    const p = this.pending.get(uri);
+    if (p) {
+      p.job = job;
+      p.due = due;
+    } else this.pending.set(uri, { job, due, timer: setTimeout(() => this.fire(uri), this.delayMs) });
+  }
+
+  private fire(uri: string): void {
+    const p = this.pending.get(uri);
+    if (!p) return;
+    const wait = p.due - Date.now();
+    if (wait > 0) {
+      p.timer = setTimeout(() => this.fire(uri), wait);
+      return;
+    }
+    this.pending.delete(uri);
+    p.job();
   }
 
   cancel(uri: string): void {
-    const t = this.timers.get(uri);
-    if (t !== undefined) clearTimeout(t);
-    this.timers.delete(uri);
+    const p = this.pending.get(uri);
+    if (p) clearTimeout(p.timer);
+    this.pending.delete(uri);
   }
 
   cancelAll(): void {
-    for (const uri of [...this.timers.keys()]) this.cancel(uri);
+    for (const uri of [...this.pending.keys()]) this.cancel(uri);
   }
 }

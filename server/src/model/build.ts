@@ -60,6 +60,7 @@ function copyDiagnostic(d: Diagnostic, delta: number): Diagnostic {
 }
 
 type LetStatement = Extract<Statement, { kind: "let" }>;
+type LatticeStatement = Extract<Statement, { kind: "latticePreset" | "latticeCustom" }>;
 
 /** What evaluating one parameter did, in order: names it read, references, diagnostics. */
 type EvalEvent =
@@ -274,12 +275,33 @@ class ModelBuilder {
     private readonly memo: BuildMemo | null = null,
   ) {}
 
+  /** The block's statements by kind, each list in source order: sorted once, as most phases read one kind. */
+  private sorted: { readonly byKind: Map<Statement["kind"], Statement[]>; readonly lattices: LatticeStatement[] } | null = null;
+
+  private sortStatements(): { readonly byKind: Map<Statement["kind"], Statement[]>; readonly lattices: LatticeStatement[] } {
+    if (this.sorted) return this.sorted;
+    const byKind = new Map<Statement["kind"], Statement[]>();
+    const lattices: LatticeStatement[] = [];
+    for (const s of this.block.statements) {
+      const list = byKind.get(s.kind);
+      if (list) list.push(s);
+      else byKind.set(s.kind, [s]);
+      if (s.kind === "latticePreset" || s.kind === "latticeCustom") lattices.push(s);
+    }
+    this.sorted = { byKind, lattices };
+    return this.sorted;
+  }
+
+  private statementsOf<K extends Statement["kind"]>(kind: K): readonly Extract<Statement, { kind: K }>[] {
+    return (this.sortStatements().byKind.get(kind) ?? []) as Extract<Statement, { kind: K }>[];
+  }
+
   private report(d: Diagnostic): void {
     this.diagnostics.push(d);
   }
 
   private once<K extends Statement["kind"]>(kind: K, what: string): Extract<Statement, { kind: K }> | null {
-    const all = this.block.statements.filter((s): s is Extract<Statement, { kind: K }> => s.kind === kind);
+    const all = this.statementsOf(kind);
     for (const extra of all.slice(1)) {
       this.report(
         diag("spw-statement-duplicate", extra.span, `A second ${what} statement; a model has one. Remove one of them.`, {
@@ -291,8 +313,7 @@ class ModelBuilder {
   }
 
   build(): SpinModel {
-    const st = this.block.statements;
-    const lets = st.filter((s): s is LetStatement => s.kind === "let");
+    const lets = this.statementsOf("let");
     const diagnosticsBefore = this.diagnostics.length;
     const fast = this.takeOverParameters(lets);
     if (!fast) this.collectParameters();
@@ -330,8 +351,7 @@ class ModelBuilder {
   // ---- parameters -------------------------------------------------------------------------
 
   private collectParameters(): void {
-    for (const s of this.block.statements) {
-      if (s.kind !== "let") continue;
+    for (const s of this.statementsOf("let")) {
       const name = s.name.name;
       if (UNIT_WORDS.has(name)) {
         this.report(
@@ -690,7 +710,7 @@ class ModelBuilder {
   }
 
   private buildLattice(): Lattice | null {
-    const presetStmt = this.block.statements.filter((s) => s.kind === "latticePreset" || s.kind === "latticeCustom");
+    const presetStmt = this.sortStatements().lattices;
     for (const extra of presetStmt.slice(1))
       this.report(diag("spw-statement-duplicate", extra.span, "A second lattice statement; a model has one lattice. Remove one of them."));
     const s = presetStmt[0];
@@ -703,7 +723,7 @@ class ModelBuilder {
       return null;
     }
     // Default spin and per-site spins.
-    const spinStatements = this.block.statements.filter((x): x is Extract<Statement, { kind: "spin" }> => x.kind === "spin");
+    const spinStatements = this.statementsOf("spin");
     const defaults = spinStatements.filter((x) => !x.site || x.site.name === "all");
     for (const extra of defaults.slice(1))
       this.report(diag("spw-statement-duplicate", extra.span, "A second default spin; give per-site spins as `spin Cu = 1`."));
@@ -826,8 +846,7 @@ class ModelBuilder {
   }
 
   private applyG(sites: Site[]): void {
-    for (const s of this.block.statements) {
-      if (s.kind !== "g") continue;
+    for (const s of this.statementsOf("g")) {
       const targets = this.sitesOf(s.site);
       const v = this.eval(s.value);
       if (!v) continue;
@@ -894,8 +913,7 @@ class ModelBuilder {
       out.push(term);
       return term;
     };
-    for (const s of this.block.statements) {
-      if (s.kind !== "exchange") continue;
+    for (const s of this.statementsOf("exchange")) {
       const kept = latticeSame && lattice ? memo?.exchanges.get(s) : undefined;
       if (kept && lattice && kept.lattice === previousLattice && this.canReplay(kept)) {
         kept.lattice = lattice;
@@ -1116,8 +1134,7 @@ class ModelBuilder {
 
   private buildSingleIon(): SingleIonTerm[] {
     const out: SingleIonTerm[] = [];
-    for (const s of this.block.statements) {
-      if (s.kind !== "anisotropy") continue;
+    for (const s of this.statementsOf("anisotropy")) {
       const targets = this.sitesOf(s.site);
       let d = 0;
       let e = 0;
