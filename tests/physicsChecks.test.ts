@@ -139,6 +139,17 @@ describe("conventions and frustration", () => {
     expect(chain("1 meV", "-0.3 meV")[0]?.frustrated).toBe(false);
   });
 
+  it("two terms on one bond count by their sum: the sign of the sum, not of each term, decides (derivable)", () => {
+    // J2 written as an AF heisenberg term plus an F isotropic xxz term on the same second-neighbour
+    // bond: the bond is AF when the sum is positive. Both files give each term the same sign, so
+    // the answer must not come from a cache keyed on the signs of the terms.
+    const split = (jb: string) =>
+      analyze(` exchange heisenberg(1 meV) on shell 1\n exchange heisenberg(0.5 meV) on shell 2\n exchange xxz(${jb}, 1) on shell 2`).p.frustration;
+    expect(split("-0.2 meV")[0]?.frustrated).toBe(true);
+    expect(split("-0.8 meV")[0]?.frustrated).toBe(false);
+    expect(split("-0.2 meV")[0]?.frustrated).toBe(true);
+  });
+
   it("triangular and kagome triangles are frustrated; the plain square lattice is not; square with J2 is", () => {
     const lat = (l: string, extra = "") => analyze(` exchange heisenberg(1 meV) on shell 1\n${extra}`, `spin 1/2\n convention antiferro-positive\n lattice ${l}`).p.frustration;
     expect(lat("triangular").every((g) => g.frustrated && g.length === 3)).toBe(true);

@@ -2,7 +2,8 @@
 // grouped by the couplings they contain. A cycle is frustrated when it holds an odd number of
 // antiferromagnetic bonds (physics layer, cycles.ts). Analysis layer.
 import { buildFiniteCluster } from "../model/cluster";
-import type { SpinModel } from "../model/model";
+import { bondKeyOf } from "../model/lattice";
+import type { ExchangeTerm, SpinModel } from "../model/model";
 import { shortestCycles, type CycleEdge } from "../physics/cycles";
 import { decomposeExchange } from "../physics/symmetry";
 import { termLabel } from "./couplings";
@@ -22,20 +23,38 @@ const CYCLE_NAMES: Record<number, string> = { 3: "triangle", 4: "square plaquett
 
 const cache = new Map<string, FrustrationGroup[]>();
 
-/** The groups depend only on the geometry, the bonds and the signs: cached on that fingerprint. */
+/** The last model's lattice and terms and its groups: a build that hands out the same objects asks again. */
+let last: { readonly lattice: object; readonly terms: readonly ExchangeTerm[]; readonly groups: FrustrationGroup[] } | null = null;
+
+/**
+ * The groups depend only on the geometry, the terms' names and bonds, and the sign of the summed
+ * isotropic coupling on each bond (two terms on one bond count by their sum): cached on that
+ * fingerprint, and on the very lattice and term objects of the last call.
+ */
 export function analyzeFrustration(model: SpinModel): FrustrationGroup[] {
   const L = model.lattice;
   if (!L || model.exchanges.length === 0) return [];
+  const terms = model.exchanges;
+  if (last && last.lattice === L && last.terms.length === terms.length && last.terms.every((t, k) => t === terms[k])) return last.groups;
+  const sums = new Map<string, number>();
+  for (const t of terms) {
+    const j = decomposeExchange(t.matrixMeV).isotropic;
+    for (const b of t.bonds) sums.set(bondKeyOf(b), (sums.get(bondKeyOf(b)) ?? 0) + j);
+  }
+  const scale = Math.max(0, ...[...sums.values()].map(Math.abs));
   const key = JSON.stringify([
     L.vectors,
     L.sites.map((s) => s.position),
-    model.exchanges.map((t) => [termLabel(t), Math.sign(decomposeExchange(t.matrixMeV).isotropic), t.bonds.map((b) => [b.from, b.to, b.offset])]),
+    terms.map((t) => [termLabel(t), t.bonds.map((b) => [b.from, b.to, b.offset])]),
+    [...sums].map(([bond, j]) => [bond, Math.abs(j) <= 1e-12 * scale ? 0 : Math.sign(j)]),
   ]);
-  const hit = cache.get(key);
-  if (hit) return hit;
-  const groups = computeFrustration(model);
-  if (cache.size > 32) cache.delete(cache.keys().next().value as string);
-  cache.set(key, groups);
+  let groups = cache.get(key);
+  if (!groups) {
+    groups = computeFrustration(model);
+    if (cache.size > 32) cache.delete(cache.keys().next().value as string);
+    cache.set(key, groups);
+  }
+  last = { lattice: L, terms, groups };
   return groups;
 }
 
