@@ -90,6 +90,26 @@ export class BuildMemo {
   readonly exchanges = new WeakMap<ExchangeStatement, ExchangeEvaluation>();
   /** The lattice of the last build: kept exchange evaluations hold only while bonds read the same lattice. */
   lattice: Lattice | null = null;
+  /**
+   * How the last lattice was built, when that reported nothing: from which statements (the
+   * lattice, spin and g statements, in order), what they read, the site references pushed.
+   */
+  latticeBuild: { readonly sources: readonly Statement[]; readonly events: readonly EvalEvent[]; readonly symbols: readonly SymbolOccurrence[]; readonly lattice: Lattice } | null = null;
+  /** Field, cluster, probe and expect statements that built without a diagnostic (see SingleEvaluation). */
+  readonly singles = new WeakMap<Statement, SingleEvaluation>();
+}
+
+/**
+ * What building a field, cluster, probe or expect statement made, when it reported nothing: the
+ * parameter values it read, the references it pushed, and the result (handed out again, the same
+ * object, while the statement is the same tree and every value it read is the same). A cluster
+ * also reads the lattice's dimension.
+ */
+interface SingleEvaluation {
+  readonly events: readonly EvalEvent[];
+  readonly symbols: readonly SymbolOccurrence[];
+  readonly value: unknown;
+  readonly dimension: number | null;
 }
 
 type ExchangeStatement = Extract<Statement, { kind: "exchange" }>;
@@ -296,6 +316,26 @@ class ModelBuilder {
     return (this.sortStatements().byKind.get(kind) ?? []) as Extract<Statement, { kind: K }>[];
   }
 
+  /** `build(s)`, or what it made from the same statement in the build before (see SingleEvaluation). */
+  private keptOrBuilt<S extends Statement, T>(s: S, build: (s: S) => T): T {
+    const memo = this.memo;
+    const dimension = s.kind === "cluster" ? (this.lattice?.dimension ?? null) : null;
+    const kept = memo?.singles.get(s);
+    if (kept && kept.dimension === dimension && this.canReplay(kept)) {
+      for (const occurrence of kept.symbols) this.symbols.push(occurrence);
+      return kept.value as T;
+    }
+    const diagnosticsBefore = this.diagnostics.length;
+    const symbolsBefore = this.symbols.length;
+    const events: EvalEvent[] = [];
+    this.recording.push(events);
+    const value = build(s);
+    this.recording.pop();
+    if (memo && this.diagnostics.length === diagnosticsBefore) memo.singles.set(s, { events, symbols: this.symbols.slice(symbolsBefore), value, dimension });
+    else memo?.singles.delete(s);
+    return value;
+  }
+
   private report(d: Diagnostic): void {
     this.diagnostics.push(d);
   }
@@ -320,7 +360,7 @@ class ModelBuilder {
     const namesClean = this.diagnostics.length === diagnosticsBefore;
     const convention = this.buildConvention();
     const sign: 1 | -1 = convention?.value === "ferro-positive" ? -1 : 1;
-    this.lattice = this.buildLattice();
+    this.lattice = this.latticeKeptOrBuilt();
     if (fast) this.finishParameters(fast);
     else for (const s of lets) this.parameter(s.name.name);
     if (this.memo) this.memo.parameterPhase = namesClean ? this.parameterPhase(lets, fast) : null;
@@ -707,6 +747,29 @@ class ModelBuilder {
       return null;
     }
     return Math.round(2 * x) / 2;
+  }
+
+  /**
+   * The lattice of the build before when it was built without a diagnostic from the very same
+   * lattice, spin and g statements, every value they read being the same; otherwise built now.
+   */
+  private latticeKeptOrBuilt(): Lattice | null {
+    const memo = this.memo;
+    const sources: Statement[] = [...this.sortStatements().lattices, ...this.statementsOf("spin"), ...this.statementsOf("g")];
+    const kept = memo?.latticeBuild;
+    if (kept && kept.sources.length === sources.length && kept.sources.every((x, k) => x === sources[k]) && this.canReplay(kept)) {
+      for (const occurrence of kept.symbols) this.symbols.push(occurrence);
+      for (const site of kept.lattice.sites) this.siteIndex.set(site.name, site.index);
+      return kept.lattice;
+    }
+    const diagnosticsBefore = this.diagnostics.length;
+    const symbolsBefore = this.symbols.length;
+    const events: EvalEvent[] = [];
+    this.recording.push(events);
+    const lattice = this.buildLattice();
+    this.recording.pop();
+    if (memo) memo.latticeBuild = lattice && this.diagnostics.length === diagnosticsBefore ? { sources, events, symbols: this.symbols.slice(symbolsBefore), lattice } : null;
+    return lattice;
   }
 
   private buildLattice(): Lattice | null {
@@ -1188,7 +1251,10 @@ class ModelBuilder {
 
   private buildField(): FieldSpec | null {
     const s = this.once("field", "field");
-    if (!s) return null;
+    return s ? this.keptOrBuilt(s, (x) => this.fieldOf(x)) : null;
+  }
+
+  private fieldOf(s: Extract<Statement, { kind: "field" }>): FieldSpec | null {
     const magnitude = this.fieldValue(s.magnitude, "The field");
     const dirRaw = s.direction ? this.vector3(s.direction, "The field direction", true) : ([0, 0, 1] as Vec3);
     if (magnitude === null || !dirRaw) return null;
@@ -1236,7 +1302,10 @@ class ModelBuilder {
 
   private buildCluster(): ClusterSpec | null {
     const s = this.once("cluster", "cluster");
-    if (!s) return null;
+    return s ? this.keptOrBuilt(s, (x) => this.clusterOf(x)) : null;
+  }
+
+  private clusterOf(s: Extract<Statement, { kind: "cluster" }>): ClusterSpec | null {
     const v = this.eval(s.size);
     const dim = this.lattice?.dimension ?? 1;
     if (!v) return null;
@@ -1255,7 +1324,10 @@ class ModelBuilder {
 
   private buildProbe(): ProbeSpec | null {
     const s = this.once("probe", "probe");
-    if (!s) return null;
+    return s ? this.keptOrBuilt(s, (x) => this.probeOf(x)) : null;
+  }
+
+  private probeOf(s: Extract<Statement, { kind: "probe" }>): ProbeSpec | null {
     const e = this.energy(s.value, "The probe frequency");
     if (e === null) return null;
     if (!(e > 0)) {
@@ -1267,7 +1339,10 @@ class ModelBuilder {
 
   private buildExpect(): ExpectSpec | null {
     const s = this.once("expect", "expect");
-    if (!s) return null;
+    return s ? this.keptOrBuilt(s, (x) => this.expectOf(x)) : null;
+  }
+
+  private expectOf(s: Extract<Statement, { kind: "expect" }>): ExpectSpec | null {
     const c = s.claim.name;
     if (c !== "su2" && c !== "u1" && c !== "none") {
       this.report(diag("spw-expect-unknown", s.claim.span, `Unknown symmetry '${c}': write expect su2, expect u1 about (x, y, z), or expect none.`));
