@@ -1,7 +1,7 @@
 // The .spw statement grammar as a chevrotain CstParser with error recovery. One parser instance is
 // reused (reset through `parser.input`) for every statement piece; the block structure around the
 // pieces is read by parse.ts. Semantics live in lower.ts, not here. Syntax layer.
-import { CstParser, type TokenType } from "chevrotain";
+import { CstParser, type IOrAlt, type TokenType } from "chevrotain";
 import {
   ALL_TOKENS,
   Arrow,
@@ -47,6 +47,13 @@ export const STATEMENT_STARTS: TokenType[] = [
 const JUNK_TOKENS: TokenType[] = ALL_TOKENS.filter((t) => t !== WhiteSpace && t !== Comment && !STATEMENT_STARTS.includes(t));
 
 class SpwParser extends CstParser {
+  /**
+   * Each OR's alternatives, made on its first call and reused: written inline, every call of a
+   * rule would allocate the array and a closure per alternative again (most of the garbage of a
+   * long file's parse, as an allocation profile showed).
+   */
+  private readonly alternatives: IOrAlt<unknown>[][] = [];
+
   constructor() {
     super(ALL_TOKENS, { recoveryEnabled: true, maxLookahead: 3, nodeLocationTracking: "onlyOffset" });
     this.performSelfAnalysis();
@@ -59,7 +66,7 @@ class SpwParser extends CstParser {
    */
   public piece = this.RULE("piece", () => {
     this.MANY(() => {
-      this.OR([
+      this.OR(this.alternatives[0] ??= [
         { ALT: () => this.SUBRULE(this.spinStmt) },
         { ALT: () => this.SUBRULE(this.conventionStmt) },
         { ALT: () => this.SUBRULE(this.latticeStmt) },
@@ -77,11 +84,11 @@ class SpwParser extends CstParser {
   });
 
   private junk = this.RULE("junk", () => {
-    this.OR(JUNK_TOKENS.map((t) => ({ ALT: () => this.CONSUME(t) })));
+    this.OR(this.alternatives[1] ??= JUNK_TOKENS.map((t) => ({ ALT: () => this.CONSUME(t) })));
   });
 
   private siteSelector = this.RULE("siteSelector", () => {
-    this.OR([{ ALT: () => this.CONSUME(Identifier) }, { ALT: () => this.CONSUME(Kw.all) }]);
+    this.OR(this.alternatives[2] ??= [{ ALT: () => this.CONSUME(Identifier) }, { ALT: () => this.CONSUME(Kw.all) }]);
   });
 
   private spinStmt = this.RULE("spinStmt", () => {
@@ -107,7 +114,7 @@ class SpwParser extends CstParser {
 
   private latticeStmt = this.RULE("latticeStmt", () => {
     this.CONSUME(Kw.lattice);
-    this.OR([
+    this.OR(this.alternatives[3] ??= [
       {
         ALT: () => {
           this.CONSUME(Identifier);
@@ -184,7 +191,7 @@ class SpwParser extends CstParser {
   });
 
   private bondSpec = this.RULE("bondSpec", () => {
-    this.OR([
+    this.OR(this.alternatives[4] ??= [
       {
         ALT: () => {
           this.CONSUME(Kw.shell);
@@ -209,7 +216,7 @@ class SpwParser extends CstParser {
     this.CONSUME(Kw.anisotropy);
     this.SUBRULE(this.siteSelector);
     this.MANY(() => {
-      this.OR([
+      this.OR(this.alternatives[5] ??= [
         {
           ALT: () => {
             this.CONSUME(Identifier);
@@ -257,7 +264,7 @@ class SpwParser extends CstParser {
     this.CONSUME(Kw.cluster);
     this.SUBRULE(this.expr);
     this.OPTION(() => {
-      this.OR([{ ALT: () => this.CONSUME(Kw.periodic) }, { ALT: () => this.CONSUME(Kw.open) }]);
+      this.OR(this.alternatives[6] ??= [{ ALT: () => this.CONSUME(Kw.periodic) }, { ALT: () => this.CONSUME(Kw.open) }]);
     });
   });
 
@@ -281,7 +288,7 @@ class SpwParser extends CstParser {
   public expr = this.RULE("expr", () => {
     this.SUBRULE(this.operand);
     this.MANY(() => {
-      this.OR([
+      this.OR(this.alternatives[7] ??= [
         { ALT: () => this.CONSUME(Plus) },
         { ALT: () => this.CONSUME(Minus) },
         { ALT: () => this.CONSUME(Star) },
@@ -294,13 +301,13 @@ class SpwParser extends CstParser {
 
   private operand = this.RULE("operand", () => {
     this.MANY(() => {
-      this.OR([{ ALT: () => this.CONSUME(Minus) }, { ALT: () => this.CONSUME(Plus) }]);
+      this.OR(this.alternatives[8] ??= [{ ALT: () => this.CONSUME(Minus) }, { ALT: () => this.CONSUME(Plus) }]);
     });
     this.SUBRULE(this.primary);
   });
 
   private primary = this.RULE("primary", () => {
-    this.OR([
+    this.OR(this.alternatives[9] ??= [
       {
         ALT: () => {
           this.CONSUME(NumberLiteral);
