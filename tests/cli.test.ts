@@ -26,6 +26,29 @@ describe("spinwright CLI", () => {
     expect(bad.out).toMatch(/^samples\/broken\/mistakes\.spw:9:18: error spw-name-unknown: Unknown name 'J3'/m);
   });
 
+  it("report runs on every sample, and prints vectors, tilted fields and diagonal g-tensors in full", () => {
+    for (const sample of ["dm-chain", "heisenberg-chain-field", "j1j2-chain-critical", "spin1-chain-anisotropy", "triangular-j1j2", "xxz-chain"]) {
+      const r = run("report", `samples/${sample}.spw`);
+      expect(r.err, sample).toBe("");
+      expect(r.code, sample).toBe(0);
+    }
+    // Numbers listed with Array.map once got the list index as their digit count.
+    const dir = mkdtempSync(join(tmpdir(), "spw-report-"));
+    const file = join(dir, "tilted.spw");
+    writeFileSync(
+      file,
+      'model "tilted" {\n  spin 1/2\n  convention antiferro-positive\n  lattice chain sites Cu\n  let J = 1 meV\n  let n = (0.123456, 2.5, 3)\n  let B = 3 T\n  let A = [[1, 0, 0], [0, 1, 0], [0, 0, 2]] * 1 meV\n  exchange heisenberg(J) on shell 1\n  g Cu = (2.05, 2.1, 2.25)\n  field 1 T along (1, 0, 1)\n}\n',
+    );
+    const r = run("report", file);
+    expect(r.err).toBe("");
+    expect(r.code).toBe(0);
+    expect(r.out).toContain("g = (2.05, 2.1, 2.25)");
+    expect(r.out).toContain("along (0.70711, 0, 0.70711)");
+    expect(r.out).toContain("n = (0.12346, 2.5, 3)\n");
+    expect(r.out).toContain("B = 3 T\n");
+    expect(r.out).toContain("A = [[1, 0, 0], [0, 1, 0], [0, 0, 2]] meV\n");
+  });
+
   it("check exits 2 with a one-line reason for a missing file or a bad option", () => {
     const missing = run("check", "no-such-file.spw");
     expect(missing.code).toBe(2);
