@@ -126,6 +126,25 @@ describe("spinwright solve and --exact", () => {
     expect(typeof j.splittingMeV.fromCurrent).toBe("number");
   });
 
+  it("a ferromagnetic chain with uniform DM along the field claims no doublet, and the exact solve finds one q = 0 line at the Zeeman energy", () => {
+    // Rotating site j by j theta about D (tan theta = D/J) maps the q = 0 mode to the magnon at
+    // q = theta of an XXZ chain (derivable); above the polarized ferromagnet that magnon sits at
+    // h + |J| - sqrt(J^2 + D^2) cos theta = h, so the line stays single, unlike the AF chain's doublet.
+    const dir = mkdtempSync(join(tmpdir(), "spw-fdm-"));
+    const file = join(dir, "ferro-dm.spw");
+    writeFileSync(
+      file,
+      'model "ferro-dm" {\n  spin 1/2\n  convention antiferro-positive\n  lattice chain sites Cu\n  exchange heisenberg(-1 meV) on shell 1\n  exchange dm(0.1 meV, (0, 0, 1)) on shell 1\n  g Cu = 2\n  field 2 T along (0, 0, 1)\n  cluster 8 periodic\n}\n',
+    );
+    const analyzed = JSON.parse(run("analyze", file).out);
+    expect(analyzed.resonance.protected).toBe(false);
+    expect(analyzed.resonance.dmDoublet).toBeNull();
+    expect(run("report", file).out).not.toMatch(/doublet, tan/);
+    const j = JSON.parse(run("solve", file, "--sites", "8", "--format", "json").out);
+    expect(j.larmor.singlePole).toBe(true);
+    expect(Math.abs(j.larmor.offsetFromZeemanMeV)).toBeLessThan(1e-9);
+  });
+
   it("solve of the DM chain finds more than one line at q = 0", () => {
     const j = JSON.parse(run("solve", "samples/dm-chain.spw", "--sites", "12", "--format", "json").out);
     expect(j.larmor.singlePole).toBe(false);

@@ -106,6 +106,12 @@ describe("other hovers", () => {
     expectRelClose(numberBefore(text, "meV"), 0.5 * MEV_PER_K);
   });
 
+  it("says that a number beyond the double range is too large instead of converting Infinity", () => {
+    const text = hoverAt(CHAIN.replace("let J1 = 14.2 K", "let J1 = 1e4$000 K"));
+    expect(text).toContain("1e400** is too large to represent");
+    expect(text).not.toMatch(/Infinity/);
+  });
+
   it("says nothing inside a comment", () => {
     const { a, offset } = analyzeMarked(CHAIN.replace("Invented scenario", "Invented sc$0enario"));
     expect(doHover(a, offset)).toBeNull();

@@ -52,7 +52,11 @@ export function analyzeResonance(model: SpinModel, sym: SymmetryResult, family: 
   if (j1 && model.field) {
     const d = decomposeExchange(j1);
     const dHat = normalize3(d.dm);
-    if (dHat && Math.abs(Math.abs(dot3(dHat, n)) - 1) < 1e-9 && d.norms.anisotropic <= 1e-9 * Math.abs(d.isotropic)) {
+    // The doublet belongs to the antiferromagnetic chain. Rotating site i by i theta about D
+    // (tan theta = D/J) turns J S.S + D.(S x S) into an XXZ chain and moves the q = 0 mode to
+    // q = theta (derivable); for J < 0 the polarized chain's magnon there sits at the Zeeman
+    // energy, a single line, and for J = 0 there is no chain to rotate.
+    if (d.isotropic > 0 && dHat && Math.abs(Math.abs(dot3(dHat, n)) - 1) < 1e-9 && d.norms.anisotropic <= 1e-9 * d.isotropic) {
       const D = norm3(d.dm);
       dmDoublet = { dMeV: D, jMeV: d.isotropic, theta: Math.atan2(D, Math.abs(d.isotropic)) };
     }

@@ -726,11 +726,11 @@ export function classifySymmetry(input: SymmetryInput): SymmetryClassification {
 function dmDetail(axis: Vec3, uniformField: Vec3 | null, angleTolerance: number): string {
   const base = "A DM vector breaks SU(2): the q = 0 resonance is no longer pinned at the Zeeman energy";
   if (!uniformField) {
-    return `${base}; for a uniform DM chain with D parallel to the field it splits into a doublet, otherwise it shifts and broadens.`;
+    return `${base}; for a uniform DM chain with antiferromagnetic exchange and D parallel to the field it splits into a doublet, otherwise it shifts and broadens.`;
   }
   const parallel = norm3(cross3(axis, uniformField)) <= angleTolerance;
   return parallel
-    ? `${base}; here D is parallel to the field, so for a uniform DM chain the line splits into a doublet.`
+    ? `${base}; here D is parallel to the field, so for a uniform DM chain with antiferromagnetic exchange the line splits into a doublet.`
     : `${base}; here D is not parallel to the field, so no spin component is conserved and the line can shift, split and broaden.`;
 }
 

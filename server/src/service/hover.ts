@@ -205,6 +205,8 @@ function numberAt(statement: Statement, offset: number): Extract<Expr, { kind: "
 function statementHover(a: DocumentAnalysis, s: Statement, offset: number, span: Span): HoverResult | null {
   const model = a.model;
   const n = numberAt(s, offset);
+  // A literal beyond the double range (1e400) reads as Infinity: say so instead of converting it.
+  if (n && !Number.isFinite(n.value)) return { span: n.span, markdown: `**${n.text}** is too large to represent as a number (the limit is about 1.8e308); use a smaller value or a smaller unit.` };
   if (n?.unit && s.kind !== "field") {
     const key = unitKey(n.unit.name, n.unit.power);
     const u = unitInfo(key);
