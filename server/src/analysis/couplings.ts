@@ -4,7 +4,6 @@
 import { diag, type Diagnostic } from "../base/diagnostics";
 import { bondKeyOf, neighbourShells, PRESETS } from "../model/lattice";
 import type { ExchangeTerm, SpinModel } from "../model/model";
-import { decomposeExchange } from "../physics/symmetry";
 
 export type CouplingCharacter = "antiferro" | "ferro" | "zero" | "antisymmetric";
 
@@ -30,7 +29,7 @@ export function termLabel(term: ExchangeTerm): string {
 }
 
 export function summarizeCouplings(model: SpinModel): CouplingSummary[] {
-  const parts = model.exchanges.map((t) => decomposeExchange(t.matrixMeV));
+  const parts = model.exchanges.map((t) => t.parts);
   const scale = Math.max(1e-300, ...parts.map((d) => Math.abs(d.isotropic) + d.norms.dm));
   return model.exchanges.map((t, k) => {
     const d = parts[k]!;
@@ -78,7 +77,7 @@ export function checkCoordination(model: SpinModel): Diagnostic[] {
   const nearest = new Set<string>();
   let firstTerm: ExchangeTerm | null = null;
   for (const t of model.exchanges) {
-    if (Math.abs(decomposeExchange(t.matrixMeV).isotropic) === 0) continue;
+    if (Math.abs(t.parts.isotropic) === 0) continue;
     for (const b of t.bonds) {
       if (shellOf(model, b.distance) !== 1) continue;
       nearest.add(bondKeyOf(b));

@@ -124,7 +124,7 @@ export function detectFamily(model: SpinModel): FamilyResult {
     }
     // Every bond of a shell must carry the same isotropic coupling.
     const shellCoupling = (s: number): number | null => {
-      const values = model.exchanges.flatMap((t) => t.bonds.filter((b) => shellOf(model, b.distance) === s).map(() => decomposeExchange(t.matrixMeV).isotropic));
+      const values = model.exchanges.flatMap((t) => t.bonds.filter((b) => shellOf(model, b.distance) === s).map(() => t.parts.isotropic));
       return values.length === 0 ? 0 : values.every((v) => Math.abs(v - (values[0] as number)) <= 1e-9 * Math.abs(values[0] as number)) ? (values[0] as number) : null;
     };
     const shells = [...byShell.keys()];

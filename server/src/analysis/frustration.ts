@@ -38,7 +38,7 @@ export function analyzeFrustration(model: SpinModel): FrustrationGroup[] {
   if (last && last.lattice === L && last.terms.length === terms.length && last.terms.every((t, k) => t === terms[k])) return last.groups;
   const sums = new Map<string, number>();
   for (const t of terms) {
-    const j = decomposeExchange(t.matrixMeV).isotropic;
+    const j = t.parts.isotropic;
     for (const b of t.bonds) sums.set(bondKeyOf(b), (sums.get(bondKeyOf(b)) ?? 0) + j);
   }
   const scale = Math.max(0, ...[...sums.values()].map(Math.abs));

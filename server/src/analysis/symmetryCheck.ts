@@ -7,7 +7,7 @@ import { bondKeyOf } from "../model/lattice";
 import type { SpinModel, SymmetryClass } from "../model/model";
 import { MU_B_MEV_PER_T } from "../model/units";
 import { dot3, mulMatVec3, scale3, transpose3 } from "../physics/linalg3";
-import { classifySymmetry, decomposeExchange, type FindingKind, type SymmetryClassification } from "../physics/symmetry";
+import { classifySymmetry, type FindingKind, type SymmetryClassification } from "../physics/symmetry";
 import type { Mat3, Vec3 } from "../physics/types";
 
 export interface BreakingTerm {
@@ -74,7 +74,7 @@ export function analyzeSymmetry(model: SpinModel): SymmetryResult {
     if (!id.startsWith("exchange:")) return true;
     const term = exchangeOf.get(id);
     if (!term) return false;
-    const d = decomposeExchange(term.matrixMeV);
+    const d = term.parts;
     const tol = 1e-12 * Math.max(1e-300, Math.abs(d.isotropic) + d.norms.dm + d.norms.anisotropic);
     return kind === "dm" ? d.norms.dm > tol : d.norms.anisotropic > tol;
   };

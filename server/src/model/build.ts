@@ -21,6 +21,7 @@ import {
   subMat3,
   ZERO3,
 } from "../physics/linalg3";
+import { decomposeExchange, type ExchangeDecomposition } from "../physics/symmetry";
 import type { Mat3, Vec3 } from "../physics/types";
 import type { Expr, ModelBlock, NameRef, Statement, SpwFile } from "../syntax/ast";
 import { evaluate, dimensionName, isScalarLike, type EvalContext, type Value } from "./evaluate";
@@ -216,6 +217,11 @@ function sameLattice(a: Lattice, b: Lattice): boolean {
     for (let i = 0; i < 3; i++) if (!same3(x.g[i]!, y.g[i]!)) return false;
   }
   return true;
+}
+
+/** A term's matrix with its decomposition, made together once. */
+function withParts(matrixMeV: Mat3): { matrixMeV: Mat3; parts: ExchangeDecomposition } {
+  return { matrixMeV, parts: decomposeExchange(matrixMeV) };
 }
 
 function sameBonds(a: readonly Bond[], b: readonly Bond[]): boolean {
@@ -969,7 +975,7 @@ class ModelBuilder {
               argsSpan: s.argsSpan,
               couplingName,
               writtenMatrixMeV: written.matrix,
-              matrixMeV: scaleMat3(written.matrix, sign),
+              ...withParts(scaleMat3(written.matrix, sign)),
               scaleMeV: written.scale,
               bonds,
             };

@@ -2,6 +2,7 @@
 // expanded, 3x3 exchange matrices in the Hamiltonian's own sign (H = + sum S_i.J.S_j), single-ion
 // tensors, g-tensors, the field and the cluster. Canonical units: meV, T, GHz. Model layer.
 import type { Span } from "../base/text";
+import type { ExchangeDecomposition } from "../physics/symmetry";
 import type { Mat3, Vec3 } from "../physics/types";
 import type { Value } from "./evaluate";
 
@@ -61,6 +62,8 @@ export interface ExchangeTerm {
   readonly writtenMatrixMeV: Mat3;
   /** The matrix in H = + sum_bonds S_i . J . S_j, after the file's convention (meV). */
   readonly matrixMeV: Mat3;
+  /** `matrixMeV` split into isotropic, DM and symmetric traceless parts (made once per term). */
+  readonly parts: ExchangeDecomposition;
   /** The coupling's leading scale as written (J for heisenberg/xxz, |D| for dm ...), meV. */
   readonly scaleMeV: number;
   readonly bonds: readonly Bond[];
