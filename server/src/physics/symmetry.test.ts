@@ -3,7 +3,7 @@
 import { describe, it, expect } from "vitest";
 import { eigs } from "mathjs";
 import type { Mat3, Vec3 } from "./types";
-import { IDENTITY3, addMat3, cross3, diag3, dot3, mulMat3, mulMatVec3, normalize3, normMat3, outer3, scale3, scaleMat3, subMat3, transpose3 } from "./linalg3";
+import { IDENTITY3, addMat3, cross3, crossMatrix3, diag3, dot3, mulMat3, mulMatVec3, normalize3, normMat3, outer3, scale3, scaleMat3, subMat3, transpose3 } from "./linalg3";
 import {
   classifySymmetry,
   decomposeExchange,
@@ -373,5 +373,27 @@ describe("rotationResidual (derivable commutator criterion)", () => {
     const n = normalize3([2, -1, 0.5])!;
     expect(rotationResidual(uniaxialMatrix3(n, 0.7, -0.3, 0.2), n)).toBeLessThan(1e-15);
     expect(rotationResidual(uniaxialMatrix3(n, 0.7, -0.3, 0.2), Z)).toBeGreaterThan(0.1);
+  });
+});
+
+describe("rotationResidual", () => {
+  it("is bit-identical to the norm of the commutator [M, [n]x] built from matrices", () => {
+    // The written-out form must do the same floating-point operations as the matrix form.
+    let x = 12345;
+    const r = (): number => {
+      x = (Math.imul(x, 1664525) + 1013904223) >>> 0;
+      return x / 2 ** 32 - 0.5;
+    };
+    const axes: Vec3[] = [[0, 0, 1], [1, 0, 0], [0, 1, 0], [0, -0, 1], [-1, 0, 0]];
+    for (let k = 0; k < 20000; k++) {
+      const m: Mat3 = [
+        [r(), r(), r()],
+        [r(), r(), r()],
+        [r(), r(), r()],
+      ];
+      const n: Vec3 = k < axes.length * 100 ? axes[k % axes.length]! : ([r(), r(), r()] as Vec3);
+      const reference = normMat3(subMat3(mulMat3(m, crossMatrix3(n)), mulMat3(crossMatrix3(n), m)));
+      expect(Object.is(rotationResidual(m, n), reference)).toBe(true);
+    }
   });
 });

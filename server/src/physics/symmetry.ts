@@ -395,7 +395,25 @@ export function canonicalAxis(n: Vec3): Vec3 {
  * factor 2 of the distance to the allowed form: a sound residual to compare with the tolerance.
  */
 export function rotationResidual(m: Mat3, n: Vec3): number {
-  return normMat3(commutator3(m, crossMatrix3(n)));
+  // normMat3(commutator3(m, crossMatrix3(n))) written out, with the same operations in the same
+  // order (bit-identical; a test compares the two), without the five matrices it would allocate:
+  // the symmetry check calls it for every term and candidate axis on every analysis.
+  const b00 = 0, b01 = -n[2], b02 = n[1];
+  const b10 = n[2], b11 = 0, b12 = -n[0];
+  const b20 = -n[1], b21 = n[0], b22 = 0;
+  let sum = 0;
+  for (let i = 0; i < 3; i++) {
+    const r = m[i] as Vec3;
+    const bi0 = i === 0 ? b00 : i === 1 ? b10 : b20;
+    const bi1 = i === 0 ? b01 : i === 1 ? b11 : b21;
+    const bi2 = i === 0 ? b02 : i === 1 ? b12 : b22;
+    // Row i of m b minus row i of b m.
+    const c0 = r[0] * b00 + r[1] * b10 + r[2] * b20 - (bi0 * m[0][0] + bi1 * m[1][0] + bi2 * m[2][0]);
+    const c1 = r[0] * b01 + r[1] * b11 + r[2] * b21 - (bi0 * m[0][1] + bi1 * m[1][1] + bi2 * m[2][1]);
+    const c2 = r[0] * b02 + r[1] * b12 + r[2] * b22 - (bi0 * m[0][2] + bi1 * m[1][2] + bi2 * m[2][2]);
+    sum = i === 0 ? c0 * c0 + c1 * c1 + c2 * c2 : sum + (c0 * c0 + c1 * c1 + c2 * c2);
+  }
+  return Math.sqrt(sum);
 }
 
 interface AnisotropicTerm {
