@@ -37,6 +37,15 @@ describe("code actions", () => {
     expect(applyPreferred(text, "spw-convention-missing")).toBe(`model "m" {\n    convention antiferro-positive\n    lattice chain\n}\n`);
   });
 
+  it("adds to an empty model right after its brace, and offers nothing when the header has no brace", () => {
+    expect(applyPreferred(`model "m" {\n}\n`, "spw-lattice-missing")).toBe(`model "m" {\n  lattice chain\n}\n`);
+    // Without '{' a statement would land outside the block; the missing brace has its own error.
+    const broken = `model "m"   stray words\n}\n`;
+    expect(fixesFor(broken, "spw-lattice-missing")).toEqual([]);
+    expect(fixesFor(broken, "spw-convention-missing")).toEqual([]);
+    expect(codes(broken)).toContain("spw-syntax");
+  });
+
   it("removes a spin-1/2 anisotropy (a constant) with its line", () => {
     const fixed = applyPreferred(CHAIN, "spw-single-ion-constant");
     expect(fixed).toBe(CHAIN.replace("  anisotropy Cu D = 0.5 K E = 0.1 K axis (0, 0, 1)\n", ""));

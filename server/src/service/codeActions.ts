@@ -52,14 +52,16 @@ function fixesFor(a: DocumentAnalysis, d: Diagnostic): CodeAction[] {
     case "spw-convention-missing": {
       const insert = typeof data["insert"] === "string" ? data["insert"] : "convention antiferro-positive";
       const other = insert.includes("antiferro-positive") ? "convention ferro-positive" : "convention antiferro-positive";
-      return [
-        action(d, `Add '${insert}' (the assumed default)`, [insertStatement(a, insert, ["spin"])], true),
-        action(d, `Add '${other}' (flips the sign of every coupling)`, [insertStatement(a, other, ["spin"])]),
-      ];
+      const first = insertStatement(a, insert, ["spin"]);
+      const second = insertStatement(a, other, ["spin"]);
+      return first && second
+        ? [action(d, `Add '${insert}' (the assumed default)`, [first], true), action(d, `Add '${other}' (flips the sign of every coupling)`, [second])]
+        : [];
     }
     case "spw-lattice-missing": {
       const insert = typeof data["insert"] === "string" ? data["insert"] : "lattice chain";
-      return [action(d, `Add '${insert}'`, [insertStatement(a, insert, ["spin", "convention"])], true)];
+      const edit = insertStatement(a, insert, ["spin", "convention"]);
+      return edit ? [action(d, `Add '${insert}'`, [edit], true)] : [];
     }
     case "spw-single-ion-constant": {
       const s = statementCovering(a, d.span);
@@ -116,7 +118,7 @@ function indentationAt(text: string, offset: number): string {
 
 /** A new statement on its own line after the last statement of one of `after` kinds, or before
  *  the first statement, or after the opening brace of an empty model. */
-function insertStatement(a: DocumentAnalysis, statementText: string, after: readonly string[]): TextEdit {
+function insertStatement(a: DocumentAnalysis, statementText: string, after: readonly string[]): TextEdit | null {
   const m = firstModel(a);
   const text = a.text;
   const eol = text.includes("\r\n") ? "\r\n" : "\n";
@@ -134,8 +136,10 @@ function insertStatement(a: DocumentAnalysis, statementText: string, after: read
     if (text.slice(start, first.span.start).trim() === "") return { span: { start, end: start }, newText: `${indent}${statementText}${eol}` };
     return { span: { start: first.span.start, end: first.span.start }, newText: `${statementText}${eol}${indent}` };
   }
-  const brace = m ? text.indexOf("{", m.name.span.end) : -1;
-  const at = brace >= 0 ? brace + 1 : text.length;
+  // An empty model: right after its '{'. Without one there is no block to add to (the missing
+  // '{' has its own diagnostic), so no fix is offered.
+  if (!m?.openSpan) return null;
+  const at = m.openSpan.end;
   return { span: { start: at, end: at }, newText: `${eol}  ${statementText}` };
 }
 

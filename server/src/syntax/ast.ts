@@ -73,6 +73,8 @@ export interface ModelBlock {
   readonly keywordSpan: Span;
   readonly name: NameRef;
   readonly statements: readonly Statement[];
+  /** Span of the opening brace, if present. */
+  readonly openSpan?: Span;
   /** Span of the closing brace, if present. */
   readonly closeSpan?: Span;
 }

@@ -709,6 +709,7 @@ class SpwParse implements ParsedFile {
       keywordSpan: { start: b.model.start, end: b.model.end },
       name,
       statements,
+      ...(b.brace ? { openSpan: { start: b.brace.start, end: b.brace.end } } : {}),
       ...(b.close ? { closeSpan: { start: b.close.start, end: b.close.end } } : {}),
     };
   }
