@@ -268,7 +268,9 @@ function lowerStatement(n: CstNode, text: string): Statement | undefined {
       const last = parts[parts.length - 1];
       if (!first || !last) return undefined;
       const valueSpan = { start: first.startOffset, end: (last.endOffset ?? last.startOffset) + 1 };
-      return { kind: "convention", span, value: { name: text.slice(valueSpan.start, valueSpan.end), span: valueSpan } };
+      // The words and dashes as written, without what lies between them (a line break would end
+      // up inside the name and the message).
+      return { kind: "convention", span, value: { name: parts.map((t) => t.image).join(""), span: valueSpan } };
     }
     case "latticeStmt": {
       if (tokens(c, "LBrace").length > 0) {

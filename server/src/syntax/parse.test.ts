@@ -29,6 +29,15 @@ describe("parseSpw", () => {
     expect(r.comments.length).toBe(1);
   });
 
+  it("reads a convention's words and dashes as one name, without the line breaks between them", () => {
+    const text = 'model "m" {\n  convention antiferro-positive\n\n-positive\n  lattice chain\n}\n';
+    const s = parseSpw(text).ast.models[0]?.statements[0];
+    expect(s?.kind).toBe("convention");
+    if (s?.kind !== "convention") return;
+    expect(s.value.name).toBe("antiferro-positive-positive");
+    expect(text.slice(s.value.span.start, s.value.span.end)).toBe("antiferro-positive\n\n-positive");
+  });
+
   it("reads a unit with a power after a number (3 cm^-1)", () => {
     const r = parseSpw(VALID);
     const let2 = r.ast.models[0]?.statements[4];
