@@ -84,6 +84,20 @@ describe("code actions", () => {
     expect(applyPreferred(name, "spw-name-unknown")).toBe(CHAIN);
   });
 
+  it("suggests units of the dimension the statement needs: energies in a coupling, fields in the field", () => {
+    const titles = (text: string): string[] => fixesFor(text, "spw-unit-unknown").map((c) => c.title);
+    const base = 'model "m" {\n  spin 1/2\n  convention antiferro-positive\n  lattice chain\n';
+    // 'mt' is one case away from mT, a field unit, and close to mK and meV.
+    const coupling = titles(`${base}  exchange heisenberg(1 mt) on shell 1\n}\n`);
+    expect(coupling[0]).toBe("Change unit to 'mK'");
+    expect(coupling.join(" ")).not.toContain("'mT'");
+    const field = titles(`${base}  field 2 mk\n}\n`);
+    expect(field[0]).toBe("Change unit to 'mT'");
+    expect(field.join(" ")).not.toContain("'mK'");
+    // A parameter may be either: spelling alone decides.
+    expect(titles(`${base}  let B = 2 mt\n}\n`)[0]).toBe("Change unit to 'mT'");
+  });
+
   it("adds a unit to a bare coupling value at its definition", () => {
     const text = CHAIN.replace("let J1 = 14.2 K", "let J1 = 14.2");
     const titles = fixesFor(text, "spw-unit-missing").map((c) => c.title);

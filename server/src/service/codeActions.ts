@@ -85,7 +85,10 @@ function fixesFor(a: DocumentAnalysis, d: Diagnostic): CodeAction[] {
     }
     case "spw-unit-unknown": {
       const unit = typeof data["unit"] === "string" ? data["unit"] : a.text.slice(d.span.start, d.span.end);
-      return replaceWith(closest(unit, Object.keys(UNITS)), "unit");
+      // Where the statement fixes the dimension, only units of that dimension: a field unit in a
+      // coupling would trade this error for a unit mismatch.
+      const needed = neededDimension(statementCovering(a, d.span));
+      return replaceWith(closest(unit, Object.keys(UNITS).filter((u) => !needed || UNITS[u]?.dimension === needed)), "unit");
     }
     case "spw-convention-unknown":
       return replaceWith(closest(a.text.slice(d.span.start, d.span.end), ["antiferro-positive", "ferro-positive"]), "convention");
@@ -147,6 +150,14 @@ function insertStatement(a: DocumentAnalysis, statementText: string, after: read
 function endOfLine(text: string, offset: number): number {
   const n = text.slice(offset).search(/\r\n|\r|\n/);
   return n < 0 ? text.length : offset + n;
+}
+
+/** The dimension a statement's quantities must have, where it fixes one (a `let` may hold either). */
+function neededDimension(s: Statement | undefined): "energy" | "field" | null {
+  if (!s) return null;
+  if (s.kind === "field") return "field";
+  if (s.kind === "exchange" || s.kind === "anisotropy" || s.kind === "probe") return "energy";
+  return null;
 }
 
 function statementCovering(a: DocumentAnalysis, span: Span): Statement | undefined {
