@@ -39,7 +39,10 @@ export function analyzeFrustration(model: SpinModel): FrustrationGroup[] {
   const sums = new Map<string, number>();
   for (const t of terms) {
     const j = t.parts.isotropic;
-    for (const b of t.bonds) sums.set(bondKeyOf(b), (sums.get(bondKeyOf(b)) ?? 0) + j);
+    for (const b of t.bonds) {
+      const key = bondKeyOf(b);
+      sums.set(key, (sums.get(key) ?? 0) + j);
+    }
   }
   const scale = Math.max(0, ...[...sums.values()].map(Math.abs));
   const key = JSON.stringify([

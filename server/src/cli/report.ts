@@ -3,13 +3,13 @@
 import type { DocumentAnalysis } from "../analysis/analyze";
 import { formatNumber } from "../service/common";
 import { describeBond } from "../model/build";
-import { dimensionName } from "../model/evaluate";
 import { MEV_PER_GHZ, MEV_PER_K } from "../model/units";
 import { formatText } from "./format";
 import { describeClass, kindText } from "../analysis/symmetryCheck";
 import { MEV_PER_CM } from "../model/units";
 import { predictionLines } from "../service/predictionsView";
 import { boundaryText } from "../service/physicsView";
+import { parameterValueText } from "../service/quantities";
 
 /** The shared number format, with one argument: `list.map(fmt)` must not pass the index as the digit count. */
 const fmt = (x: number): string => formatNumber(x);
@@ -37,7 +37,7 @@ export function renderReport(file: string, a: DocumentAnalysis): string {
       else if (v.energy === 1 && v.field === 0 && v.shape.length === 0)
         out.push(`  ${p.name} = ${fmt(v.data[0] ?? 0)} meV = ${fmt((v.data[0] ?? 0) / MEV_PER_K)} K = ${fmt((v.data[0] ?? 0) / MEV_PER_GHZ)} GHz`);
       else if (v.energy === 0 && v.field === 0 && v.shape.length === 0) out.push(`  ${p.name} = ${fmt(v.data[0] ?? 0)}`);
-      else out.push(`  ${p.name} = ${valueText(v)}`);
+      else out.push(`  ${p.name} = ${parameterValueText(a, p) ?? "(invalid)"}`);
     }
   }
   if (m.exchanges.length > 0) {
@@ -60,19 +60,6 @@ export function renderReport(file: string, a: DocumentAnalysis): string {
 
 function spinText(s: number): string {
   return Number.isInteger(s) ? String(s) : `${Math.round(2 * s)}/2`;
-}
-
-/** A parameter value other than a plain energy or number: a field, a vector or a matrix, with its unit. */
-function valueText(v: { readonly energy: number; readonly field: number; readonly shape: readonly number[]; readonly data: readonly number[] }): string {
-  const unit = v.energy === 1 && v.field === 0 ? " meV" : v.energy === 0 && v.field === 1 ? " T" : v.energy === 0 && v.field === 0 ? "" : ` [${dimensionName(v)}]`;
-  const cols = v.shape[1] ?? 0;
-  const shown =
-    v.shape.length === 0
-      ? fmt(v.data[0] ?? 0)
-      : v.shape.length === 2 && cols > 0
-        ? `[${Array.from({ length: v.shape[0] ?? 0 }, (_, r) => `[${v.data.slice(r * cols, (r + 1) * cols).map(fmt).join(", ")}]`).join(", ")}]`
-        : `(${v.data.map(fmt).join(", ")})`;
-  return `${shown}${unit}`;
 }
 
 function gText(g: readonly (readonly number[])[]): string {

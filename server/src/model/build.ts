@@ -190,16 +190,9 @@ interface ExchangeEvaluation {
   readonly symbols: readonly SymbolOccurrence[];
   readonly written: { readonly matrix: Mat3; readonly scale: number };
   readonly requests: readonly BondRequest[];
-  /** The term this evaluation made last: handed out again while it reads the same. */
+  /** The term this evaluation made last, and the convention sign it was made with: handed out again while it reads the same. */
   term: ExchangeTerm;
-}
-
-/** Whether a term's matrix was made with the convention sign `sign` (the written matrix is the same). */
-function sameSign(t: ExchangeTerm, sign: 1 | -1): boolean {
-  const w = t.writtenMatrixMeV;
-  const m = t.matrixMeV;
-  for (let i = 0; i < 3; i++) for (let j = 0; j < 3; j++) if (!Object.is(m[i]![j], sign * w[i]![j]!)) return false;
-  return true;
+  sign: 1 | -1;
 }
 
 function same3(x: Vec3, y: Vec3): boolean {
@@ -331,15 +324,24 @@ class ModelBuilder {
       for (const occurrence of kept.symbols) this.symbols.push(occurrence);
       return kept.value as T;
     }
+    const { value, events, symbols, clean } = this.recorded(() => build(s));
+    if (memo && clean) memo.singles.set(s, { events, symbols, value, dimension });
+    else memo?.singles.delete(s);
+    return value;
+  }
+
+  /**
+   * Runs `build` recording the parameter values it reads and the references it pushes, for a memo
+   * entry; `clean` when it reported no diagnostic (only such builds are kept).
+   */
+  private recorded<T>(build: () => T): { value: T; events: EvalEvent[]; symbols: SymbolOccurrence[]; clean: boolean } {
     const diagnosticsBefore = this.diagnostics.length;
     const symbolsBefore = this.symbols.length;
     const events: EvalEvent[] = [];
     this.recording.push(events);
-    const value = build(s);
+    const value = build();
     this.recording.pop();
-    if (memo && this.diagnostics.length === diagnosticsBefore) memo.singles.set(s, { events, symbols: this.symbols.slice(symbolsBefore), value, dimension });
-    else memo?.singles.delete(s);
-    return value;
+    return { value, events, symbols: this.symbols.slice(symbolsBefore), clean: this.diagnostics.length === diagnosticsBefore };
   }
 
   private report(d: Diagnostic): void {
@@ -768,13 +770,8 @@ class ModelBuilder {
       for (const site of kept.lattice.sites) this.siteIndex.set(site.name, site.index);
       return kept.lattice;
     }
-    const diagnosticsBefore = this.diagnostics.length;
-    const symbolsBefore = this.symbols.length;
-    const events: EvalEvent[] = [];
-    this.recording.push(events);
-    const lattice = this.buildLattice();
-    this.recording.pop();
-    if (memo) memo.latticeBuild = lattice && this.diagnostics.length === diagnosticsBefore ? { sources, events, symbols: this.symbols.slice(symbolsBefore), lattice } : null;
+    const { value: lattice, events, symbols, clean } = this.recorded(() => this.buildLattice());
+    if (memo) memo.latticeBuild = lattice && clean ? { sources, events, symbols, lattice } : null;
     return lattice;
   }
 
@@ -959,13 +956,13 @@ class ModelBuilder {
     const previousLattice = memo?.lattice ?? null;
     const latticeSame = memo !== null && sameLatticeForBonds(previousLattice, lattice);
     if (memo) memo.lattice = lattice;
-    /** Adds the term, or `before` (the term this statement made last time) when it reads the same. */
+    /** Adds the term, or `before` (the term this statement made last time, with this sign) when it reads the same. */
     const push = (s: ExchangeStatement, kind: ExchangeKind, written: { matrix: Mat3; scale: number }, bonds: Bond[], before: ExchangeTerm | null = null): ExchangeTerm => {
       const first = s.args[0];
       const couplingName = first && first.kind === "name" && this.paramStatements.has(first.name) ? first.name : null;
       // The same object when nothing differs keeps the physics memo's comparison to one check.
       const term: ExchangeTerm =
-        before && before.index === out.length && before.kind === kind && before.couplingName === couplingName && before.writtenMatrixMeV === written.matrix && sameSign(before, sign) && sameBonds(before.bonds, bonds)
+        before && before.index === out.length && before.kind === kind && before.couplingName === couplingName && before.writtenMatrixMeV === written.matrix && sameBonds(before.bonds, bonds)
           ? before
           : {
               index: out.length,
@@ -987,19 +984,16 @@ class ModelBuilder {
       if (kept && lattice && kept.lattice === previousLattice && this.canReplay(kept)) {
         kept.lattice = lattice;
         for (const occurrence of kept.symbols) this.symbols.push(occurrence);
-        kept.term = push(s, s.exchangeKind.name as ExchangeKind, kept.written, this.placeBonds(s.exchangeKind.name as ExchangeKind, kept.requests, lattice, seen), kept.term);
+        const kind = s.exchangeKind.name as ExchangeKind;
+        kept.term = push(s, kind, kept.written, this.placeBonds(kind, kept.requests, lattice, seen), kept.sign === sign ? kept.term : null);
+        kept.sign = sign;
         continue;
       }
-      const diagnosticsBefore = this.diagnostics.length;
-      const symbolsBefore = this.symbols.length;
-      const events: EvalEvent[] = [];
-      this.recording.push(events);
-      const built = this.buildExchange(s, seen);
-      this.recording.pop();
+      const { value: built, events, symbols, clean } = this.recorded(() => this.buildExchange(s, seen));
       if (!built) continue;
       const term = push(s, built.kind, built.written, built.bonds);
-      if (memo && lattice && built.requests && this.diagnostics.length === diagnosticsBefore) {
-        memo.exchanges.set(s, { lattice, events, symbols: this.symbols.slice(symbolsBefore), written: built.written, requests: built.requests, term });
+      if (memo && lattice && built.requests && clean) {
+        memo.exchanges.set(s, { lattice, events, symbols, written: built.written, requests: built.requests, term, sign });
       } else memo?.exchanges.delete(s);
     }
     return out;

@@ -411,7 +411,7 @@ export function rotationResidual(m: Mat3, n: Vec3): number {
     const c0 = r[0] * b00 + r[1] * b10 + r[2] * b20 - (bi0 * m[0][0] + bi1 * m[1][0] + bi2 * m[2][0]);
     const c1 = r[0] * b01 + r[1] * b11 + r[2] * b21 - (bi0 * m[0][1] + bi1 * m[1][1] + bi2 * m[2][1]);
     const c2 = r[0] * b02 + r[1] * b12 + r[2] * b22 - (bi0 * m[0][2] + bi1 * m[1][2] + bi2 * m[2][2]);
-    sum = i === 0 ? c0 * c0 + c1 * c1 + c2 * c2 : sum + (c0 * c0 + c1 * c1 + c2 * c2);
+    sum += c0 * c0 + c1 * c1 + c2 * c2; // 0 + x is exactly x
   }
   return Math.sqrt(sum);
 }
