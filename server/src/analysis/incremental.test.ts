@@ -202,4 +202,24 @@ describe("incremental analysis", () => {
     const flipped = next(gChanged.text.replace("  spin 1/2", "  spin 1/2\n  convention ferro-positive"), gChanged);
     expect(flipped.model?.exchanges.some((t) => kept.includes(t))).toBe(false);
   });
+
+  it("hands out the physics diagnostics of the version before when a new value leaves them reading the same", () => {
+    const base = generatedModel(60);
+    const before = analyzeDocument(base);
+    const physicsCodes = ["spw-resonance-unprotected", "spw-expect-weaker"];
+    const old = before.diagnostics.filter((d) => physicsCodes.includes(d.code));
+    expect(old).toHaveLength(2);
+    // J1 changes the DM term's value (D1 = 0.02 J1) and the physics is computed again, but
+    // the messages read the same at the same statements: the same objects, equal to a fresh analysis.
+    const valued = analyzeDocument(base.replace("let J1 = 10.37 K", "let J1 = 110.37 K"), { previous: before });
+    expectSameAnalysis(valued, analyzeDocument(valued.text));
+    expect(valued.physics).not.toBe(before.physics);
+    for (const d of old) expect(valued.diagnostics).toContain(d);
+    // A claim that changes the message: a new object with the new text.
+    const claimed = analyzeDocument(valued.text.replace("expect none", "expect su2"), { previous: valued });
+    expectSameAnalysis(claimed, analyzeDocument(claimed.text));
+    const mismatch = claimed.diagnostics.find((d) => d.code === "spw-expect-mismatch");
+    expect(mismatch).toBeDefined();
+    expect(old).not.toContain(mismatch);
+  });
 });

@@ -1,7 +1,7 @@
 // Joins the semantic model with the physics layer: symmetry, conventions and couplings,
 // frustration, stability region and the q = 0 resonance, each with its diagnostics.
 // Analysis layer.
-import { diag, type Diagnostic } from "../base/diagnostics";
+import { diag, sameDiagnostic, type Diagnostic } from "../base/diagnostics";
 import type { SpinModel } from "../model/model";
 import { checkCoordination, summarizeCouplings, type CouplingSummary } from "./couplings";
 import { detectFamily, type FamilyResult } from "./family";
@@ -128,7 +128,12 @@ export function analyzePhysicsKept(model: SpinModel, options: AnalysisOptions, m
         return got;
       }
     : undefined;
-  const result = analyzePhysics(model, exact ? { ...options, exact } : options);
+  const fresh = analyzePhysics(model, exact ? { ...options, exact } : options);
+  // A changed coupling usually leaves the physics diagnostics saying the same things at the same
+  // places: hand out the objects of the version before then, so the editor layer sees at once
+  // that nothing it reported changed (see lsp/convert sameAsLsp).
+  const before = last?.result.diagnostics;
+  const result = before ? { summary: fresh.summary, diagnostics: fresh.diagnostics.map((d, i) => (before[i] && sameDiagnostic(d, before[i]) ? before[i] : d)) } : fresh;
   memo.last = { model, result, exactLookups };
   return result;
 }

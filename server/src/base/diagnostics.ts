@@ -84,3 +84,34 @@ export function diag(
 ): Diagnostic {
   return { code, severity: extra.severity ?? defaultSeverity(code), message, span, ...extra };
 }
+
+/**
+ * Whether two diagnostics say the same thing, wherever they point: code, severity, message, the
+ * related messages, tags and data equal.
+ */
+export function sameDiagnosticText(a: Diagnostic, b: Diagnostic): boolean {
+  if (a === b) return true;
+  if (a.code !== b.code || a.severity !== b.severity || a.message !== b.message) return false;
+  const ra = a.related ?? [];
+  const rb = b.related ?? [];
+  if (ra.length !== rb.length) return false;
+  for (let i = 0; i < ra.length; i++) if ((ra[i] as RelatedInfo).message !== (rb[i] as RelatedInfo).message) return false;
+  const ta = a.tags ?? [];
+  const tb = b.tags ?? [];
+  if (ta.length !== tb.length || ta.some((t, i) => t !== tb[i])) return false;
+  return a.data === b.data || JSON.stringify(a.data) === JSON.stringify(b.data);
+}
+
+/**
+ * Whether two diagnostics say the same thing at the same span objects (their own and the related
+ * ones). Such diagnostics are interchangeable: a span object is the position the parse keeps
+ * current for its tree.
+ */
+export function sameDiagnostic(a: Diagnostic, b: Diagnostic): boolean {
+  if (a === b) return true;
+  if (a.span !== b.span || !sameDiagnosticText(a, b)) return false;
+  const ra = a.related ?? [];
+  const rb = b.related ?? [];
+  for (let i = 0; i < ra.length; i++) if ((ra[i] as RelatedInfo).span !== (rb[i] as RelatedInfo).span) return false;
+  return true;
+}

@@ -16,7 +16,7 @@ import {
   type TextEdit as LspTextEdit,
 } from "vscode-languageserver";
 import type { DocumentAnalysis } from "../analysis/analyze";
-import type { Diagnostic } from "../base/diagnostics";
+import { sameDiagnosticText, type Diagnostic } from "../base/diagnostics";
 import type { Span } from "../base/text";
 import type { CodeAction, CompletionItem, CompletionKind, OutlineKind, OutlineSymbol, TextEdit } from "../service/index";
 
@@ -62,9 +62,10 @@ function sameRange(a: DocumentAnalysis, span: Span, r: Range): boolean {
 
 /**
  * Whether `a`'s diagnostics read in LSP exactly as `before` (for the same uri and documentation
- * link): most keystrokes leave them so. A service diagnostic that is the very object converted
- * before (kept by the analysis from the version before) has the same code, message, related
- * messages, tags and data, so only its ranges are checked; any other is converted and compared
+ * link): most keystrokes leave them so. A service diagnostic that says what the one converted
+ * before said (the very object, kept by the analysis from the version before, or one with the
+ * same code, severity, message, related messages, tags and data) converts to the same LSP
+ * diagnostic but for its ranges, so only those are checked; any other is converted and compared
  * in full.
  */
 export function sameAsLsp(a: DocumentAnalysis, uri: string, docsUri: string | null, before: LspReport): boolean {
@@ -73,12 +74,13 @@ export function sameAsLsp(a: DocumentAnalysis, uri: string, docsUri: string | nu
   for (let i = 0; i < core.length; i++) {
     const d = core[i] as Diagnostic;
     const item = before.items[i] as LspDiagnostic;
-    if (d !== before.core[i]) {
+    if (!sameDiagnosticText(d, before.core[i] as Diagnostic)) {
       if (JSON.stringify(toLspDiagnostic(a, uri, d, docsUri)) !== JSON.stringify(item)) return false;
       continue;
     }
     if (!sameRange(a, d.span, item.range)) return false;
     const related = d.related ?? [];
+    if (related.length !== (item.relatedInformation?.length ?? 0)) return false;
     for (let k = 0; k < related.length; k++) {
       const r = item.relatedInformation?.[k];
       if (!r || !sameRange(a, (related[k] as { span: Span }).span, r.location.range)) return false;
