@@ -145,10 +145,33 @@ function siteHover(model: SpinModel, name: string): string {
  */
 const fieldHovers = new WeakMap<object, string | null>();
 
+/**
+ * The last field hover with what it read: a new summary (a coupling typed into) often leaves all
+ * of it the same. The field and lattice objects are handed over by the build while their
+ * statements and values read the same (model/build.ts); the resonance sentence is compared as
+ * text; predictions count only when they apply, and then as the very same object.
+ */
+let lastFieldHover: {
+  readonly field: object;
+  readonly lattice: object | null;
+  readonly reason: string | null;
+  readonly predictions: object | null;
+  readonly text: string | null;
+} | null = null;
+
 function fieldHover(a: DocumentAnalysis, model: SpinModel): string | null {
   const physics = a.physics;
   if (physics && fieldHovers.has(physics)) return fieldHovers.get(physics) ?? null;
-  const text = fieldHoverText(a, model);
+  const field = model.field;
+  if (!field) return null;
+  const resonance = physics?.resonance;
+  const reason = resonance?.hasField && resonance.reason ? resonance.reason : null;
+  const predictions = physics?.predictions.applicable ? physics.predictions : null;
+  const lattice = model.lattice ?? null;
+  const last = lastFieldHover;
+  const text =
+    last && last.field === field && last.lattice === lattice && last.reason === reason && last.predictions === predictions ? last.text : fieldHoverText(a, model);
+  lastFieldHover = { field, lattice, reason, predictions, text };
   if (physics) fieldHovers.set(physics, text);
   return text;
 }
