@@ -150,6 +150,23 @@ describe("conventions and frustration", () => {
     expect(split("-0.2 meV")[0]?.frustrated).toBe(true);
   });
 
+  it("typing a value into a coupling keeps the frustration answer only while every summed sign stays", () => {
+    // The same check edit by edit, each analysis built on the one before (the build hands out the
+    // same bonds and labels, so only the signs decide whether the last answer stands).
+    const text = (jb: string) =>
+      `model "m" {\n spin 1/2\n convention antiferro-positive\n lattice chain sites Cu\n let Jb = ${jb}\n exchange heisenberg(1 meV) on shell 1\n exchange heisenberg(0.5 meV) on shell 2\n exchange xxz(Jb, 1) on shell 2\n}\n`;
+    const values = ["-0.3 meV", "-0.8 meV", "-0.9 meV", "-0.4 meV", "-0.45 meV", "-0.6 meV"];
+    const fresh = values.map((jb) => analyzeDocument(text(jb)).physics?.frustration[0]?.frustrated);
+    expect(fresh).toEqual([true, false, false, true, true, false]);
+    // No fresh analysis in between: each edit meets the last answer of the chain itself.
+    let a = analyzeDocument(text("-0.2 meV"));
+    const typed = values.map((jb) => {
+      a = analyzeDocument(text(jb), { previous: a });
+      return a.physics?.frustration[0]?.frustrated;
+    });
+    expect(typed).toEqual(fresh);
+  });
+
   it("triangular and kagome triangles are frustrated; the plain square lattice is not; square with J2 is", () => {
     const lat = (l: string, extra = "") => analyze(` exchange heisenberg(1 meV) on shell 1\n${extra}`, `spin 1/2\n convention antiferro-positive\n lattice ${l}`).p.frustration;
     expect(lat("triangular").every((g) => g.frustrated && g.length === 3)).toBe(true);

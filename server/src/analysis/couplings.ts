@@ -29,11 +29,17 @@ export function termLabel(term: ExchangeTerm): string {
 }
 
 export function summarizeCouplings(model: SpinModel): CouplingSummary[] {
-  const parts = model.exchanges.map((t) => t.parts);
-  const scale = Math.max(1e-300, ...parts.map((d) => Math.abs(d.isotropic) + d.norms.dm));
-  return model.exchanges.map((t, k) => {
-    const d = parts[k]!;
-    const tol = 1e-12 * scale;
+  let scale = 1e-300;
+  for (const t of model.exchanges) scale = Math.max(scale, Math.abs(t.parts.isotropic) + t.parts.norms.dm);
+  const tol = 1e-12 * scale;
+  return model.exchanges.map((t) => {
+    const d = t.parts;
+    // The shells of the term's bonds, each once, in the order first met.
+    const shells: number[] = [];
+    for (const b of t.bonds) {
+      const s = shellOf(model, b.distance);
+      if (s !== null && !shells.includes(s)) shells.push(s);
+    }
     const character: CouplingCharacter =
       Math.abs(d.isotropic) > tol ? (d.isotropic > 0 ? "antiferro" : "ferro") : d.norms.dm > tol ? "antisymmetric" : "zero";
     return {
@@ -46,7 +52,7 @@ export function summarizeCouplings(model: SpinModel): CouplingSummary[] {
       dmMeV: d.norms.dm,
       anisotropicMeV: d.norms.anisotropic,
       bondsPerCell: t.bonds.length,
-      shells: [...new Set(t.bonds.map((b) => shellOf(model, b.distance)).filter((x): x is number => x !== null))],
+      shells,
     };
   });
 }
@@ -62,8 +68,11 @@ export function shellOf(model: SpinModel, distance: number): number | null {
     shells = neighbourShells(L.vectors, L.sites.map((s) => s.position), 4).distances;
     shellDistances.set(L, shells);
   }
-  const k = shells.findIndex((d) => Math.abs(d - distance) < 1e-6 * Math.max(1, d));
-  return k < 0 ? null : k + 1;
+  for (let k = 0; k < shells.length; k++) {
+    const d = shells[k] as number;
+    if (Math.abs(d - distance) < 1e-6 * Math.max(1, d)) return k + 1;
+  }
+  return null;
 }
 
 /**

@@ -1,7 +1,7 @@
 // Recognises common model families from the semantic model (lattice geometry, spins and bond
 // tensors, never the file's name) and places the couplings on their phase diagrams through the
 // physics layer's region table. Analysis layer.
-import { bondKeyOf, canonicalBond } from "../model/lattice";
+import { bondKeyOf } from "../model/lattice";
 import type { SpinModel } from "../model/model";
 import { addMat3, normMat3, outer3, scaleMat3, subMat3, IDENTITY3, dot3, mulMatVec3 } from "../physics/linalg3";
 import { placeInRegion, type FamilyInput, type RegionPlacement } from "../physics/regions";
@@ -29,17 +29,42 @@ function isIsotropic(m: Mat3): boolean {
   return d.norms.dm + d.norms.anisotropic <= 1e-9 * Math.max(1e-300, normMat3(m));
 }
 
-/** Sum of bond matrices per neighbour distance index k (offset k along the chain). */
-function chainMatrices(model: SpinModel): Map<number, Mat3> {
+/** The last model's exchange terms and their sums: family and predictions both ask for them. */
+let lastSums: { readonly exchanges: SpinModel["exchanges"]; readonly sums: ReadonlyMap<number, Mat3> } | null = null;
+
+/**
+ * Sum of bond matrices per neighbour distance index k (offset k along a chain with one site per
+ * cell). Bonds are stored in canonical orientation (model/lattice canonicalBond: for from = to the
+ * first non-zero offset component is positive), so k = |offset| and each matrix adds as written.
+ * The sums are fresh matrices, added in place in the order of the terms.
+ */
+export function chainBondSums(model: SpinModel): ReadonlyMap<number, Mat3> {
+  if (lastSums && lastSums.exchanges === model.exchanges) return lastSums.sums;
   const out = new Map<number, Mat3>();
   for (const t of model.exchanges) {
+    const m = t.matrixMeV;
     for (const b of t.bonds) {
-      const c = canonicalBond(b.from, b.to, b.offset);
-      const k = Math.abs(c.offset[0] ?? 0);
-      // Seen from the other end a bond's matrix is transposed; the canonical orientation has k > 0.
-      out.set(k, addMat3(out.get(k) ?? ZERO, t.matrixMeV));
+      const k = Math.abs(b.offset[0] ?? 0);
+      const acc = out.get(k);
+      if (acc === undefined) {
+        // 0 + x, as adding to a zero matrix gives (it turns -0 into 0).
+        out.set(k, [
+          [0 + m[0][0], 0 + m[0][1], 0 + m[0][2]],
+          [0 + m[1][0], 0 + m[1][1], 0 + m[1][2]],
+          [0 + m[2][0], 0 + m[2][1], 0 + m[2][2]],
+        ]);
+        continue;
+      }
+      for (let i = 0; i < 3; i++) {
+        const row = acc[i] as [number, number, number];
+        const add = m[i] as Vec3;
+        row[0] += add[0];
+        row[1] += add[1];
+        row[2] += add[2];
+      }
     }
   }
+  lastSums = { exchanges: model.exchanges, sums: out };
   return out;
 }
 
@@ -78,7 +103,7 @@ export function detectFamily(model: SpinModel): FamilyResult {
   });
 
   if (L.dimension === 1 && L.sites.length === 1) {
-    const ms = chainMatrices(model);
+    const ms = chainBondSums(model);
     const longer = [...ms.keys()].some((k) => k > 2);
     const j1 = ms.get(1) ?? null;
     const j2 = ms.get(2) ?? null;

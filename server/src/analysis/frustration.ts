@@ -23,8 +23,40 @@ const CYCLE_NAMES: Record<number, string> = { 3: "triangle", 4: "square plaquett
 
 const cache = new Map<string, FrustrationGroup[]>();
 
-/** The last model's lattice and terms and its groups: a build that hands out the same objects asks again. */
-let last: { readonly lattice: object; readonly terms: readonly ExchangeTerm[]; readonly groups: FrustrationGroup[] } | null = null;
+/**
+ * The last model's lattice, terms, summed-coupling signs and groups: a build that hands out the
+ * same objects, or terms that differ only in values that keep every sign, asks again.
+ */
+let last: {
+  readonly lattice: object;
+  readonly terms: readonly ExchangeTerm[];
+  readonly signs: readonly (readonly [string, number])[];
+  readonly groups: FrustrationGroup[];
+} | null = null;
+
+/** Same labels and bonds (sites and cell offsets), term by term: the geometry part of the key. */
+function sameGeometry(a: readonly ExchangeTerm[], b: readonly ExchangeTerm[]): boolean {
+  if (a.length !== b.length) return false;
+  for (let k = 0; k < a.length; k++) {
+    const x = a[k] as ExchangeTerm;
+    const y = b[k] as ExchangeTerm;
+    if (x === y) continue;
+    if (x.bonds.length !== y.bonds.length || termLabel(x) !== termLabel(y)) return false;
+    for (let i = 0; i < x.bonds.length; i++) {
+      const p = x.bonds[i] as ExchangeTerm["bonds"][number];
+      const q = y.bonds[i] as ExchangeTerm["bonds"][number];
+      if (p === q) continue;
+      if (p.from !== q.from || p.to !== q.to || p.offset.length !== q.offset.length || p.offset.some((o, d) => o !== q.offset[d])) return false;
+    }
+  }
+  return true;
+}
+
+function sameSigns(a: readonly (readonly [string, number])[], b: readonly (readonly [string, number])[]): boolean {
+  if (a.length !== b.length) return false;
+  for (let i = 0; i < a.length; i++) if ((a[i] as [string, number])[0] !== (b[i] as [string, number])[0] || (a[i] as [string, number])[1] !== (b[i] as [string, number])[1]) return false;
+  return true;
+}
 
 /**
  * The groups depend only on the geometry, the terms' names and bonds, and the sign of the summed
@@ -44,12 +76,20 @@ export function analyzeFrustration(model: SpinModel): FrustrationGroup[] {
       sums.set(key, (sums.get(key) ?? 0) + j);
     }
   }
-  const scale = Math.max(0, ...[...sums.values()].map(Math.abs));
+  let scale = 0;
+  for (const j of sums.values()) scale = Math.max(scale, Math.abs(j));
+  const signs: [string, number][] = [];
+  for (const [bond, j] of sums) signs.push([bond, Math.abs(j) <= 1e-12 * scale ? 0 : Math.sign(j)]);
+  // A new value that keeps every sign (most typing in a coupling): the last groups stand.
+  if (last && last.lattice === L && sameGeometry(last.terms, terms) && sameSigns(last.signs, signs)) {
+    last = { lattice: L, terms, signs, groups: last.groups };
+    return last.groups;
+  }
   const key = JSON.stringify([
     L.vectors,
     L.sites.map((s) => s.position),
     terms.map((t) => [termLabel(t), t.bonds.map((b) => [b.from, b.to, b.offset])]),
-    [...sums].map(([bond, j]) => [bond, Math.abs(j) <= 1e-12 * scale ? 0 : Math.sign(j)]),
+    signs,
   ]);
   let groups = cache.get(key);
   if (!groups) {
@@ -57,7 +97,7 @@ export function analyzeFrustration(model: SpinModel): FrustrationGroup[] {
     if (cache.size > 32) cache.delete(cache.keys().next().value as string);
     cache.set(key, groups);
   }
-  last = { lattice: L, terms, groups };
+  last = { lattice: L, terms, signs, groups };
   return groups;
 }
 

@@ -6,11 +6,11 @@ import type { SpinModel } from "../model/model";
 import { MU_B_MEV_PER_T } from "../model/units";
 import { xxzDressedVelocity, xxzFieldForMagnetization, xxzMagnetization, xxzVelocity } from "../physics/bethe";
 import { branchCurve, dmDoublet, fieldTheorySplitting, twoBranches } from "../physics/branches";
-import { addMat3, dot3, mulMatVec3, normMat3, outer3, scaleMat3, subMat3, IDENTITY3 } from "../physics/linalg3";
+import { dot3, normMat3 } from "../physics/linalg3";
 import { nearSaturationBranch, saturationFieldWithBoundStates, type ChainBond } from "../physics/magnons";
 import { decomposeExchange } from "../physics/symmetry";
-import type { Mat3, Vec3 } from "../physics/types";
-import { canonicalBond } from "../model/lattice";
+import type { Vec3 } from "../physics/types";
+import { chainBondSums } from "./family";
 import type { PhysicsSummary } from "./physics";
 
 /** Thresholds of the regimes, in m per site (saturation 1/2); see docs/predictions.md. */
@@ -123,38 +123,47 @@ function betheMagnetization(delta: number, h: number): ReturnType<typeof xxzMagn
 const none = <T>(reason: string, method = "none"): Valued<T> => ({ value: null, method, valid: false, reason });
 
 /** Chain couplings about the field axis n, or a reason why the chain is not U(1) about n. */
+/** Scratch for chainCouplings: the symmetric part of one bond sum, row-major. */
+const SYM = new Float64Array(9);
+
 export function chainCouplings(model: SpinModel, axis: Vec3): { ok: true; value: ChainCouplings } | { ok: false; reason: string } {
   const L = model.lattice;
   if (!L || L.dimension !== 1 || L.sites.length !== 1) return { ok: false, reason: "the field-dependent predictions are implemented for chains with one site per cell" };
   if (L.sites[0]?.spin !== 0.5) return { ok: false, reason: "the field-dependent predictions are implemented for spin 1/2" };
-  const zero: Mat3 = [
-    [0, 0, 0],
-    [0, 0, 0],
-    [0, 0, 0],
-  ];
-  const byOffset = new Map<number, Mat3>();
-  for (const t of model.exchanges)
-    for (const b of t.bonds) {
-      const c = canonicalBond(b.from, b.to, b.offset);
-      const k = c.offset[0] ?? 0;
-      byOffset.set(k, addMat3(byOffset.get(k) ?? zero, t.matrixMeV));
-    }
+  const byOffset = chainBondSums(model);
   // The magnon problems grow with the bond range; beyond a few neighbours they would cost seconds
   // on every keystroke for models the formulas here do not cover anyway.
   const longest = Math.max(0, ...byOffset.keys());
   if (longest > MAX_CHAIN_RANGE) return { ok: false, reason: `couplings beyond ${MAX_CHAIN_RANGE} neighbours are not covered by the chain predictions` };
-  const nn = outer3(axis, axis);
+  const n0 = axis[0];
+  const n1 = axis[1];
+  const n2 = axis[2];
   const bonds: { offset: number; jPerp: number; jZ: number }[] = [];
   let dm = 0;
   for (const [offset, m] of [...byOffset.entries()].sort((a, b) => a[0] - b[0])) {
     const d = decomposeExchange(m);
     const dAlong = dot3(d.dm, axis);
-    const sym = subMat3(m, subMat3(m, scaleMat3(addMat3(m, [[m[0][0], m[1][0], m[2][0]], [m[0][1], m[1][1], m[2][1]], [m[0][2], m[1][2], m[2][2]]]), 0.5)));
-    const jZ = dot3(axis, mulMatVec3(sym, axis));
-    const jPerp = (sym[0][0] + sym[1][1] + sym[2][2] - jZ) / 2;
-    const rebuilt = addMat3(scaleMat3(subMat3(IDENTITY3, nn), jPerp), scaleMat3(nn, jZ));
+    // The symmetric part, written out as m - (m - (m + m^T)/2) entry by entry (the same
+    // floating-point operations as that matrix expression, without its temporaries).
+    for (let i = 0; i < 3; i++) for (let j = 0; j < 3; j++) SYM[3 * i + j] = m[i]![j]! - (m[i]![j]! - (m[i]![j]! + m[j]![i]!) * 0.5);
+    const w0 = SYM[0]! * n0 + SYM[1]! * n1 + SYM[2]! * n2;
+    const w1 = SYM[3]! * n0 + SYM[4]! * n1 + SYM[5]! * n2;
+    const w2 = SYM[6]! * n0 + SYM[7]! * n1 + SYM[8]! * n2;
+    const jZ = n0 * w0 + n1 * w1 + n2 * w2;
+    const jPerp = (SYM[0]! + SYM[4]! + SYM[8]! - jZ) / 2;
+    // Distance of the symmetric part from the uniaxial form (1 - n n^T) jPerp + n n^T jZ.
+    let rowSum = 0;
+    for (let i = 0; i < 3; i++) {
+      let row = 0;
+      for (let j = 0; j < 3; j++) {
+        const nn = axis[j]! * axis[i]!;
+        const r = ((i === j ? 1 : 0) - nn) * jPerp + nn * jZ - SYM[3 * i + j]!;
+        row = j === 0 ? r * r : row + r * r;
+      }
+      rowSum = i === 0 ? row : rowSum + row;
+    }
     const scale = Math.max(1e-300, normMat3(m));
-    if (normMat3(subMat3(rebuilt, sym)) > 1e-9 * scale || Math.abs(Math.hypot(...d.dm) - Math.abs(dAlong)) > 1e-9 * scale)
+    if (Math.sqrt(rowSum) > 1e-9 * scale || Math.abs(Math.hypot(d.dm[0], d.dm[1], d.dm[2]) - Math.abs(dAlong)) > 1e-9 * scale)
       return { ok: false, reason: `the bond at offset ${offset} is not U(1)-symmetric about the field axis` };
     if (Math.abs(dAlong) > 1e-12 * scale) {
       if (offset !== 1) return { ok: false, reason: "DM terms beyond nearest neighbours are not covered" };

@@ -73,6 +73,22 @@ describe("symmetricEigen3", () => {
     }
   });
 
+  it("orders the eigenpairs as a stable sort of the diagonal does, ties included", () => {
+    // Diagonal input: Jacobi does no rotation, so values and vectors are the diagonal and the unit
+    // vectors, and their order must be that of Array.prototype.sort (stable) on the indices.
+    const triples: Vec3[] = [[1, 2, 3], [3, 2, 1], [2, 3, 1], [2, 1, 3], [1, 3, 2], [3, 1, 2], [1, 1, 2], [2, 1, 1], [1, 2, 1], [1, 1, 1], [0, -0, 0], [-1, -1, 5]];
+    for (const t of triples) {
+      const eig = symmetricEigen3([
+        [t[0], 0, 0],
+        [0, t[1], 0],
+        [0, 0, t[2]],
+      ]);
+      const order = [0, 1, 2].sort((i, j) => t[i]! - t[j]!);
+      expect(eig.values).toEqual(order.map((i) => t[i]));
+      expect(eig.vectors.map((v) => v.indexOf(1))).toEqual(order);
+    }
+  });
+
   it("resolves a double eigenvalue and its simple partner to ~1e-15 (uniaxial case)", () => {
     const n = normalize3([1, 2, 3])!;
     const eig = symmetricEigen3(xxzAbout(n, 1, 1.3));

@@ -82,16 +82,33 @@ export function symmetricEigen3(m: Mat3): SymmetricEigen3 {
       }
     }
   }
-  // Ascending order of the diagonal (a stable sort of the indices, as Array.prototype.sort is).
-  const d0 = a[0]!;
-  const d1 = a[4]!;
-  const d2 = a[8]!;
-  const order = [0, 1, 2].sort((i, j) => (i === 0 ? d0 : i === 1 ? d1 : d2) - (j === 0 ? d0 : j === 1 ? d1 : d2));
-  const [o0, o1, o2] = [order[0] ?? 0, order[1] ?? 1, order[2] ?? 2];
-  const column = (k: number): Vec3 => [v[k]!, v[3 + k]!, v[6 + k]!];
+  // Ascending order of the diagonal: a stable insertion sort of the three indices, the order
+  // Array.prototype.sort gives with the comparator d_i - d_j, without the arrays it allocates.
+  const d = (k: number): number => (k === 0 ? a[0]! : k === 1 ? a[4]! : a[8]!);
+  let o0 = 0;
+  let o1 = 1;
+  let o2 = 2;
+  if (d(o0) - d(o1) > 0) {
+    o0 = 1;
+    o1 = 0;
+  }
+  if (d(o1) - d(o2) > 0) {
+    const t = o1;
+    o1 = o2;
+    o2 = t;
+    if (d(o0) - d(o1) > 0) {
+      const u = o0;
+      o0 = o1;
+      o1 = u;
+    }
+  }
   return {
-    values: [a[4 * o0]!, a[4 * o1]!, a[4 * o2]!],
-    vectors: [column(o0), column(o1), column(o2)],
+    values: [d(o0), d(o1), d(o2)],
+    vectors: [
+      [v[o0]!, v[3 + o0]!, v[6 + o0]!],
+      [v[o1]!, v[3 + o1]!, v[6 + o1]!],
+      [v[o2]!, v[3 + o2]!, v[6 + o2]!],
+    ],
   };
 }
 
