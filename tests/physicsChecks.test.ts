@@ -108,7 +108,8 @@ describe("the expect claim", () => {
 
   it("expect u1 about the wrong axis is an error", () => {
     const { a } = analyze(` exchange xxz(1 meV, 0.5) on shell 1\n expect u1 about (1, 0, 0)`);
-    expect(a.diagnostics.map((d) => d.code)).toContain("spw-expect-mismatch");
+    const d = a.diagnostics.find((x) => x.code === "spw-expect-mismatch");
+    expect(d?.message).toBe("The file expects U(1) about (1, 0, 0), but the conserved axis is (0, 0, 1). Write 'expect u1 about (0, 0, 1)'.");
   });
 
   it("expect none on an SU(2) model is a hint", () => {

@@ -138,7 +138,7 @@ export function checkExpect(model: SpinModel, sym: SymmetryResult): Diagnostic[]
   }
   if (e.claim === "u1" && computed === "u1" && e.axis && sym.axis && Math.abs(Math.abs(dot3(e.axis, sym.axis)) - 1) > 1e-6) {
     return [
-      diag("spw-expect-mismatch", e.claimSpan, `The file expects U(1) about (${e.axis.map((x) => Number(x.toFixed(4))).join(", ")}), but the conserved axis is ${computedText.slice(10)}. Write 'expect ${replacement}'.`, {
+      diag("spw-expect-mismatch", e.claimSpan, `The file expects U(1) about (${e.axis.map((x) => Number(x.toFixed(4))).join(", ")}), but the conserved axis is ${computedText.slice("U(1) about ".length)}. Write 'expect ${replacement}'.`, {
         related,
         data,
       }),
