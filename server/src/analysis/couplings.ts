@@ -28,21 +28,37 @@ export function termLabel(term: ExchangeTerm): string {
   return term.couplingName ?? `${term.kind} #${term.index + 1}`;
 }
 
+/**
+ * The last summaries by term, with the lattice they were made on: a term object the build handed
+ * over from the version before reads the same, so its summary is the same while the lattice and
+ * its character (the one thing a new scale can change) are.
+ */
+let lastSummaries: { readonly lattice: object | null; readonly byTerm: Map<ExchangeTerm, CouplingSummary> } = { lattice: null, byTerm: new Map() };
+
 export function summarizeCouplings(model: SpinModel): CouplingSummary[] {
   let scale = 1e-300;
   for (const t of model.exchanges) scale = Math.max(scale, Math.abs(t.parts.isotropic) + t.parts.norms.dm);
   const tol = 1e-12 * scale;
+  const lattice = model.lattice ?? null;
+  const before = lastSummaries.lattice === lattice ? lastSummaries.byTerm : null;
+  const byTerm = new Map<ExchangeTerm, CouplingSummary>();
+  lastSummaries = { lattice, byTerm };
   return model.exchanges.map((t) => {
     const d = t.parts;
+    const character: CouplingCharacter =
+      Math.abs(d.isotropic) > tol ? (d.isotropic > 0 ? "antiferro" : "ferro") : d.norms.dm > tol ? "antisymmetric" : "zero";
+    const kept = before?.get(t);
+    if (kept && kept.character === character) {
+      byTerm.set(t, kept);
+      return kept;
+    }
     // The shells of the term's bonds, each once, in the order first met.
     const shells: number[] = [];
     for (const b of t.bonds) {
       const s = shellOf(model, b.distance);
       if (s !== null && !shells.includes(s)) shells.push(s);
     }
-    const character: CouplingCharacter =
-      Math.abs(d.isotropic) > tol ? (d.isotropic > 0 ? "antiferro" : "ferro") : d.norms.dm > tol ? "antisymmetric" : "zero";
-    return {
+    const summary: CouplingSummary = {
       index: t.index,
       name: termLabel(t),
       kind: t.kind,
@@ -54,6 +70,8 @@ export function summarizeCouplings(model: SpinModel): CouplingSummary[] {
       bondsPerCell: t.bonds.length,
       shells,
     };
+    byTerm.set(t, summary);
+    return summary;
   });
 }
 

@@ -26,6 +26,15 @@ function expectSameAnalysis(incremental: DocumentAnalysis, fresh: DocumentAnalys
   for (const p of incremental.model?.parameters.values() ?? []) expect(incremental.text.slice(p.nameSpan.start, p.nameSpan.end)).toBe(p.name);
 }
 
+/**
+ * What an analysis says, copied: diagnostics, model and physics with every span at its place at
+ * the time of copying (the next incremental parse moves the trees of the version before).
+ */
+function snapshot(a: DocumentAnalysis): unknown {
+  const { symbols, ...model } = a.model ?? { symbols: [] };
+  return structuredClone({ diagnostics: a.diagnostics, model, symbols: inSourceOrder(symbols), physics: a.physics, hasModel: a.model !== null });
+}
+
 describe("incremental analysis", () => {
   it("gives the fresh analysis after each of 1200 random edits (chains of 8 edits of project files)", () => {
     const texts = projectTexts();
@@ -39,6 +48,25 @@ describe("incremental analysis", () => {
         expectSameAnalysis(incremental, analyzeDocument(text));
         analysis = incremental;
       }
+    }
+  });
+
+  it("gives the fresh analysis after each of 800 random edits with no fresh analysis in between", () => {
+    // The analysis layer keeps the last result of some steps (frustration, coupling summaries,
+    // chain sums) for the objects the build hands over; a fresh analysis between two edits would
+    // replace them, so here each chain runs on its own and is compared afterwards.
+    const texts = projectTexts();
+    const r = mulberry32(78);
+    for (let chain = 0; chain < 100; chain++) {
+      let text = texts[chain % texts.length] as string;
+      let analysis = analyzeDocument(text);
+      const seen: { text: string; copy: unknown }[] = [];
+      for (let step = 0; step < 8; step++) {
+        text = applyEdit(text, randomEdit(text, r));
+        analysis = analyzeDocument(text, { previous: analysis });
+        seen.push({ text, copy: snapshot(analysis) });
+      }
+      for (const { text: t, copy } of seen) expect(copy).toEqual(snapshot(analyzeDocument(t)));
     }
   });
 

@@ -35,13 +35,16 @@ export function siteFieldsMeV(model: SpinModel): Vec3[] {
   return (model.lattice?.sites ?? []).map((s) => scale3(mulMatVec3(transpose3(s.g), B), MU_B_MEV_PER_T));
 }
 
+/** The classifier's ids of exchange terms by index, made once ("exchange:3"). */
+const EXCHANGE_IDS: string[] = [];
+
 export function analyzeSymmetry(model: SpinModel): SymmetryResult {
   const spans = new Map<string, Span>();
   const exchangeOf = new Map<string, (typeof model.exchanges)[number]>();
   const pairs = new Map<string, number>();
   const bonds: { id: string; matrix: Mat3; sites: [number, number] }[] = [];
   for (const term of model.exchanges) {
-    const id = `exchange:${term.index}`;
+    const id = (EXCHANGE_IDS[term.index] ??= `exchange:${term.index}`);
     spans.set(id, term.span);
     exchangeOf.set(id, term);
     for (const b of term.bonds) {

@@ -98,8 +98,24 @@ export function sameDiagnosticText(a: Diagnostic, b: Diagnostic): boolean {
   for (let i = 0; i < ra.length; i++) if ((ra[i] as RelatedInfo).message !== (rb[i] as RelatedInfo).message) return false;
   const ta = a.tags ?? [];
   const tb = b.tags ?? [];
-  if (ta.length !== tb.length || ta.some((t, i) => t !== tb[i])) return false;
-  return a.data === b.data || JSON.stringify(a.data) === JSON.stringify(b.data);
+  if (ta.length !== tb.length) return false;
+  for (let i = 0; i < ta.length; i++) if (ta[i] !== tb[i]) return false;
+  return sameData(a.data, b.data);
+}
+
+/** Equality of plain data (numbers, strings, booleans, null, arrays and records of them). */
+function sameData(a: unknown, b: unknown): boolean {
+  if (a === b) return true;
+  if (typeof a !== "object" || typeof b !== "object" || a === null || b === null) return false;
+  if (Array.isArray(a) !== Array.isArray(b)) return false;
+  const ka = Object.keys(a);
+  const kb = Object.keys(b);
+  if (ka.length !== kb.length) return false;
+  for (let i = 0; i < ka.length; i++) {
+    const k = ka[i] as string;
+    if (k !== kb[i] || !sameData((a as Record<string, unknown>)[k], (b as Record<string, unknown>)[k])) return false;
+  }
+  return true;
 }
 
 /**

@@ -33,6 +33,10 @@ export interface SymmetricEigen3 {
   readonly vectors: readonly [Vec3, Vec3, Vec3];
 }
 
+const EIGEN_A = new Float64Array(9);
+const EIGEN_V = new Float64Array(9);
+const IDENTITY_ROWS = [1, 0, 0, 0, 1, 0, 0, 0, 1];
+
 /**
  * Cyclic Jacobi rotations (Numerical Recipes, 3rd ed., section 11.1). Chosen over the closed-form
  * trigonometric eigenvalues of linalg3 because those lose about half the digits near a double
@@ -41,11 +45,13 @@ export interface SymmetricEigen3 {
  * Only the symmetric part (m + m^T)/2 is used.
  */
 export function symmetricEigen3(m: Mat3): SymmetricEigen3 {
-  // a and v are row-major 3x3 arrays (index 3 i + j); the same arithmetic, in the same order, as
-  // the textbook form with nested arrays, without allocating per rotation.
-  const a = [0, 0, 0, 0, 0, 0, 0, 0, 0];
+  // a and v are row-major 3x3 arrays (index 3 i + j), scratch shared by all calls (the function
+  // does not re-enter); the same arithmetic, in the same order, as the textbook form with nested
+  // arrays, without allocating per rotation or per call.
+  const a = EIGEN_A;
+  const v = EIGEN_V;
   for (let i = 0; i < 3; i++) for (let j = 0; j < 3; j++) a[3 * i + j] = 0.5 * (m[i]![j]! + m[j]![i]!);
-  const v = [1, 0, 0, 0, 1, 0, 0, 0, 1];
+  v.set(IDENTITY_ROWS);
   let sumSquares = 0;
   for (let k = 0; k < 9; k++) sumSquares += a[k]! * a[k]!;
   const scaleNorm = Math.sqrt(sumSquares);
@@ -84,7 +90,7 @@ export function symmetricEigen3(m: Mat3): SymmetricEigen3 {
   }
   // Ascending order of the diagonal: a stable insertion sort of the three indices, the order
   // Array.prototype.sort gives with the comparator d_i - d_j, without the arrays it allocates.
-  const d = (k: number): number => (k === 0 ? a[0]! : k === 1 ? a[4]! : a[8]!);
+  const d = (k: number): number => a[4 * k]!;
   let o0 = 0;
   let o1 = 1;
   let o2 = 2;
@@ -440,6 +446,8 @@ interface AnisotropicTerm {
   readonly matrix: Mat3;
   readonly dm: Vec3;
   readonly anisotropic: Mat3;
+  /** symmetricEigen3(anisotropic), made when first asked for (candidate axes ask up to twice). */
+  eig?: SymmetricEigen3;
 }
 
 function dedupeAxes(axes: readonly Vec3[]): Vec3[] {
@@ -460,7 +468,7 @@ function candidateAxes(term: AnisotropicTerm, tolerance: number): Vec3[] {
   const out: Vec3[] = [];
   const d = normalize3(term.dm);
   if (d && norm3(term.dm) > tolerance) out.push(canonicalAxis(d));
-  const eig = symmetricEigen3(term.anisotropic);
+  const eig = (term.eig ??= symmetricEigen3(term.anisotropic));
   const [l0, l1, l2] = eig.values;
   const simple = [l1 - l0 > tolerance, l1 - l0 > tolerance && l2 - l1 > tolerance, l2 - l1 > tolerance];
   simple.forEach((isSimple, k) => {
@@ -502,11 +510,13 @@ export function classifySymmetry(input: SymmetryInput): SymmetryClassification {
   const notes: SymmetryNote[] = [];
 
   // Sum bonds per unordered site pair where the caller gave pairs.
-  const bondGroups: { ids: string[]; matrix: Mat3 }[] = [];
+  // A group's matrix is the caller's own until a second bond joins; then a sum of its own, which
+  // later bonds are added to in place (the same additions, in the same order, as addMat3).
+  const bondGroups: { ids: string[]; matrix: Mat3; owned: boolean }[] = [];
   const pairIndex = new Map<number, number>();
   for (const bond of input.bonds) {
     if (!bond.sites) {
-      bondGroups.push({ ids: [bond.id], matrix: bond.matrix });
+      bondGroups.push({ ids: [bond.id], matrix: bond.matrix, owned: false });
       continue;
     }
     const [i, j] = bond.sites;
@@ -515,12 +525,22 @@ export function classifySymmetry(input: SymmetryInput): SymmetryClassification {
     const key = Math.min(i, j) * 67108864 + Math.max(i, j);
     const at = pairIndex.get(key);
     const group = at === undefined ? undefined : bondGroups[at];
-    if (group) {
+    if (group && group.owned) {
+      for (let r = 0; r < 3; r++) {
+        const row = group.matrix[r] as unknown as [number, number, number];
+        const add = oriented[r] as Vec3;
+        row[0] += add[0];
+        row[1] += add[1];
+        row[2] += add[2];
+      }
+      group.ids.push(bond.id);
+    } else if (group) {
       group.ids.push(bond.id);
       group.matrix = addMat3(group.matrix, oriented);
+      group.owned = true;
     } else {
       pairIndex.set(key, bondGroups.length);
-      bondGroups.push({ ids: [bond.id], matrix: oriented });
+      bondGroups.push({ ids: [bond.id], matrix: oriented, owned: false });
     }
   }
 
@@ -673,7 +693,8 @@ export function classifySymmetry(input: SymmetryInput): SymmetryClassification {
       }
       const anisoNorm = normMat3(term.anisotropic);
       if (anisoNorm > tolerance) {
-        const alone: AnisotropicTerm = { ...term, dm: [0, 0, 0] };
+        term.eig ??= symmetricEigen3(term.anisotropic);
+        const alone: AnisotropicTerm = { ...term, dm: [0, 0, 0] }; // shares the eigen-decomposition
         const axis = singleTermAxis(term.anisotropic, alone, tolerance);
         const diagonal = isDiagonal(term.anisotropic, tolerance);
         const kind: FindingKind = axis || diagonal ? "exchange-anisotropy" : "off-diagonal-symmetric";
