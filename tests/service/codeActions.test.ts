@@ -98,6 +98,19 @@ describe("code actions", () => {
     expect(titles(`${base}  let B = 2 mt\n}\n`)[0]).toBe("Change unit to 'mT'");
   });
 
+  it("suggests only energies for an unknown name in a coupling's place", () => {
+    const titles = (text: string): string[] => fixesFor(text, "spw-name-unknown").map((c) => c.title);
+    const base = 'model "m" {\n  spin 1/2\n  convention antiferro-positive\n  lattice chain\n  let B1 = 2 T\n  let J1 = 1 meV\n';
+    // 'B' is one edit from the field B1 and two from the energy J1.
+    const coupling = titles(`${base}  exchange heisenberg(B) on shell 1\n}\n`);
+    expect(coupling.join(" ")).toContain("'J1'");
+    expect(coupling.join(" ")).not.toContain("'B1'");
+    // muB is an energy per field: no coupling on its own.
+    expect(titles(`${base}  exchange heisenberg(mu) on shell 1\n}\n`).join(" ")).not.toContain("muB");
+    // Elsewhere spelling alone decides.
+    expect(titles(`${base}  let h = 2 * B\n}\n`)[0]).toContain("'B1'");
+  });
+
   it("adds a unit to a bare coupling value at its definition", () => {
     const text = CHAIN.replace("let J1 = 14.2 K", "let J1 = 14.2");
     const titles = fixesFor(text, "spw-unit-missing").map((c) => c.title);

@@ -79,7 +79,16 @@ function fixesFor(a: DocumentAnalysis, d: Diagnostic): CodeAction[] {
       return replaceWith(stringList(data["suggestions"]), "exchange kind");
     case "spw-name-unknown": {
       const name = typeof data["name"] === "string" ? data["name"] : a.text.slice(d.span.start, d.span.end);
-      const known = [...(a.model?.parameters.keys() ?? []), ...Object.keys(CONSTANTS)];
+      // In a coupling's place (an exchange's first argument, written as a bare name) only energies
+      // fit: a parameter or constant of another dimension would trade this error for a unit mismatch.
+      const s = statementCovering(a, d.span);
+      const first = s?.kind === "exchange" ? s.args[0] : undefined;
+      const coupling = first !== undefined && first.span.start === d.span.start && first.span.end === d.span.end;
+      const fits = (v: { energy: number; field: number } | null | undefined): boolean => !coupling || !v || (v.energy === 1 && v.field === 0);
+      const known = [
+        ...[...(a.model?.parameters.values() ?? [])].filter((p) => fits(p.value)).map((p) => p.name),
+        ...Object.keys(CONSTANTS).filter((c) => fits(CONSTANTS[c])),
+      ];
       const given = stringList(data["suggestions"]);
       return replaceWith(given.length > 0 ? given : closest(name, known), "name");
     }
