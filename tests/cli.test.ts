@@ -49,6 +49,21 @@ describe("spinwright CLI", () => {
     expect(r.out).toContain("A = [[1, 0, 0], [0, 1, 0], [0, 0, 2]] meV\n");
   });
 
+  it("report lists each bond as written, with a matrix term's isotropic part named as such", () => {
+    const dir = mkdtempSync(join(tmpdir(), "spw-report-"));
+    const file = join(dir, "reversed.spw");
+    writeFileSync(
+      file,
+      'model "reversed" {\n  spin 1/2\n  convention antiferro-positive\n  lattice chain sites V\n  exchange heisenberg(1 meV) on V -> V + (1)\n  exchange dm(-0.1 meV, (0, 0, 1)) on V -> V + (-1)\n  exchange matrix([[0 meV, -0.1 meV, 0 meV], [0.1 meV, 0 meV, 0 meV], [0 meV, 0 meV, 0 meV]]) on V -> V + (1)\n}\n',
+    );
+    const r = run("report", file);
+    expect(r.code).toBe(0);
+    expect(r.out).toContain("  dm = -0.1 meV on V -> V + (-1)\n");
+    expect(r.out).toContain("  matrix with J = tr/3 = 0 meV on V -> V + (1)\n");
+    // dm(-D) on the reversed bond is dm(D) forward; the matrix is dm(-D) forward (D_z = (m_xy - m_yx)/2): they cancel (derivable).
+    expect(r.out).toContain("symmetry (without the field): SU(2)");
+  });
+
   it("check exits 2 with a one-line reason for a missing file or a bad option", () => {
     const missing = run("check", "no-such-file.spw");
     expect(missing.code).toBe(2);

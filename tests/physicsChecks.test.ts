@@ -4,6 +4,7 @@
 // derivable), CODATA 2018 for conversions, the cited papers for region boundaries.
 import { describe, expect, it } from "vitest";
 import { analyzeDocument } from "../server/src/analysis/analyze";
+import { buildFiniteCluster } from "../server/src/model/cluster";
 
 function analyze(body: string, header = "spin 1/2\n convention antiferro-positive\n lattice chain sites Cu") {
   const text = `model "m" {\n ${header}\n${body}\n}\n`;
@@ -121,6 +122,46 @@ describe("the expect claim", () => {
   it("a correct claim gives no diagnostic", () => {
     const { a } = analyze(` exchange xxz(1 meV, 0.5) on shell 1\n expect u1 about (0, 0, -1)`);
     expect(a.diagnostics.filter((d) => d.code.startsWith("spw-expect"))).toEqual([]);
+  });
+});
+
+describe("bond orientation", () => {
+  // docs/format.md: `A -> B + (n)` is S_A(cell 0) . J . S_B(cell n), and `B -> A + (-n)` is the same
+  // bond seen from its other end. S_a . J . S_b = S_b . J^T . S_a for operators on different
+  // sites (derivable), so the stored canonical bond must carry J^T when it was written reversed.
+  const chainOf = (body: string) =>
+    analyzeDocument(`model "m" {\n spin 1/2\n convention antiferro-positive\n lattice chain sites V\n cluster 6 periodic\n${body}\n}\n`);
+
+  it("a DM term written from the other end with the opposite matrix cancels the first: SU(2)", () => {
+    const a = chainOf(
+      " exchange heisenberg(10 K) on V -> V + (1)\n exchange dm(1 K, (0, 0, 1)) on V -> V + (1)\n exchange matrix([[0 K, 1 K, 0 K], [-1 K, 0 K, 0 K], [0 K, 0 K, 0 K]]) on V -> V + (-1)",
+    );
+    expect(a.physics?.symmetry.h0).toBe("su2");
+    const cluster = buildFiniteCluster(a.model!, [6]);
+    if (!cluster.ok) throw new Error("no cluster");
+    // Every bond's DM parts cancel pair by pair: the summed matrix of each pair is symmetric.
+    const sums = new Map<string, number[][]>();
+    for (const b of cluster.value.cluster.bonds) {
+      const key = b.i < b.j ? `${b.i}:${b.j}` : `${b.j}:${b.i}`;
+      const m = b.i < b.j ? b.matrix : b.matrix.map((_, r) => b.matrix.map((row) => row[r]!));
+      const acc = sums.get(key) ?? [[0, 0, 0], [0, 0, 0], [0, 0, 0]];
+      m.forEach((row, r) => row.forEach((x, c) => (acc[r]![c]! += x)));
+      sums.set(key, acc);
+    }
+    for (const m of sums.values()) expect(Math.abs(m[0]![1]! - m[1]![0]!)).toBeLessThan(1e-15);
+  });
+
+  it("dm(-D) written from the other end is dm(D): same symmetry, chain couplings and cluster", () => {
+    const field = "\n g V = 2\n field 5 T along (0, 0, 1)";
+    const forward = chainOf(` exchange heisenberg(10 K) on V -> V + (1)\n exchange dm(1 K, (0, 0, 1)) on V -> V + (1)${field}`);
+    const backward = chainOf(` exchange heisenberg(10 K) on V -> V + (1)\n exchange dm(-1 K, (0, 0, 1)) on V -> V + (-1)${field}`);
+    expect(backward.physics?.symmetry.h0).toBe(forward.physics?.symmetry.h0);
+    expect(backward.physics?.predictions.couplings).toEqual(forward.physics?.predictions.couplings);
+    expect(forward.physics?.predictions.couplings?.dmMeV).toBeGreaterThan(0);
+    const cf = buildFiniteCluster(forward.model!, [6]);
+    const cb = buildFiniteCluster(backward.model!, [6]);
+    if (!cf.ok || !cb.ok) throw new Error("no cluster");
+    expect(cb.value.cluster.bonds).toEqual(cf.value.cluster.bonds);
   });
 });
 

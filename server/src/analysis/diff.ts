@@ -3,7 +3,7 @@
 // terms, the stability region and the resonance's protection. Names and statement order do not
 // matter: bonds are matched by site index and cell offset. Analysis layer.
 import { bondKey } from "../model/lattice";
-import type { SpinModel } from "../model/model";
+import { bondMatrix, type SpinModel } from "../model/model";
 import { addMat3, normMat3, subMat3 } from "../physics/linalg3";
 import { decomposeExchange } from "../physics/symmetry";
 import type { Mat3 } from "../physics/types";
@@ -49,7 +49,7 @@ function bondMatrices(m: SpinModel): Map<string, { label: string; matrix: Mat3 }
       const key = bondKey(b.from, b.to, b.offset);
       const prev = out.get(key);
       const label = `${name(b.from)} -> ${name(b.to)}${b.offset.some((x) => x !== 0) ? ` + (${b.offset.join(", ")})` : ""}`;
-      out.set(key, { label, matrix: addMat3(prev?.matrix ?? ZERO, t.matrixMeV) });
+      out.set(key, { label, matrix: addMat3(prev?.matrix ?? ZERO, bondMatrix(t, b)) });
     }
   }
   return out;

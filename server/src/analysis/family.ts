@@ -2,7 +2,7 @@
 // tensors, never the file's name) and places the couplings on their phase diagrams through the
 // physics layer's region table. Analysis layer.
 import { bondKeyOf } from "../model/lattice";
-import type { SpinModel } from "../model/model";
+import { bondMatrix, type SpinModel } from "../model/model";
 import { addMat3, normMat3, outer3, scaleMat3, subMat3, IDENTITY3, dot3, mulMatVec3 } from "../physics/linalg3";
 import { placeInRegion, type FamilyInput, type RegionPlacement } from "../physics/regions";
 import { decomposeExchange, symmetricEigen3 } from "../physics/symmetry";
@@ -42,8 +42,8 @@ export function chainBondSums(model: SpinModel): ReadonlyMap<number, Mat3> {
   if (lastSums && lastSums.exchanges === model.exchanges) return lastSums.sums;
   const out = new Map<number, Mat3>();
   for (const t of model.exchanges) {
-    const m = t.matrixMeV;
     for (const b of t.bonds) {
+      const m = bondMatrix(t, b);
       const k = Math.abs(b.offset[0] ?? 0);
       const acc = out.get(k);
       if (acc === undefined) {

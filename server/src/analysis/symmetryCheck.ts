@@ -4,7 +4,7 @@
 import { diag, type Diagnostic, type RelatedInfo } from "../base/diagnostics";
 import type { Span } from "../base/text";
 import { bondKeyOf } from "../model/lattice";
-import type { SpinModel, SymmetryClass } from "../model/model";
+import { bondMatrix, type SpinModel, type SymmetryClass } from "../model/model";
 import { MU_B_MEV_PER_T } from "../model/units";
 import { dot3, mulMatVec3, scale3, transpose3 } from "../physics/linalg3";
 import { classifySymmetry, type FindingKind, type SymmetryClassification } from "../physics/symmetry";
@@ -55,7 +55,7 @@ export function analyzeSymmetry(model: SpinModel): SymmetryResult {
         pairs.set(key, p);
       }
       // Distinct bonds are distinct operators: give each its own pair of indices.
-      bonds.push({ id, matrix: term.matrixMeV, sites: [2 * p, 2 * p + 1] });
+      bonds.push({ id, matrix: bondMatrix(term, b), sites: [2 * p, 2 * p + 1] });
     }
   }
   const sites = model.lattice?.sites ?? [];

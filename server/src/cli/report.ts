@@ -43,9 +43,12 @@ export function renderReport(file: string, a: DocumentAnalysis): string {
   if (m.exchanges.length > 0) {
     out.push("exchange terms:");
     for (const e of m.exchanges) {
-      const bonds = m.lattice ? e.bonds.map((b) => describeBond(m.lattice!, b.from, b.to, b.offset)) : [];
+      // Each bond as the file wrote it, the orientation the term's value refers to.
+      const bonds = m.lattice ? e.bonds.map((b) => (b.reversed ? describeBond(m.lattice!, b.to, b.from, b.offset.map((n) => -n || 0)) : describeBond(m.lattice!, b.from, b.to, b.offset))) : [];
       const shown = bonds.length > 4 ? `${bonds.slice(0, 4).join(", ")}, ... (${bonds.length} bonds per cell)` : bonds.join(", ");
-      out.push(`  ${e.kind}${e.couplingName ? ` ${e.couplingName}` : ""} = ${fmt(e.scaleMeV)} meV on ${shown}`);
+      // A matrix term's scale is its isotropic part, tr/3: say so (a pure DM matrix has 0).
+      const value = e.kind === "matrix" ? `with J = tr/3 = ${fmt(e.scaleMeV)} meV` : `= ${fmt(e.scaleMeV)} meV`;
+      out.push(`  ${e.kind}${e.couplingName ? ` ${e.couplingName}` : ""} ${value} on ${shown}`);
     }
   }
   if (m.field) out.push(`field: ${fmt(m.field.magnitudeT)} T along (${m.field.direction.map(fmt).join(", ")})`);

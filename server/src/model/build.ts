@@ -1186,7 +1186,9 @@ class ModelBuilder {
       if (!r.bond) {
         const c = canonicalBond(r.from, r.to, r.offset);
         const distance = Math.hypot(...bondVector(lattice.vectors, lattice.sites.map((x) => x.position), c.from, c.to, c.offset));
-        r.bond = { from: c.from, to: c.to, offset: c.offset, distance, span: r.span, shell: r.shell };
+        // Written from its other end: the canonical form swapped the sites (or, on one site, negated the offset).
+        const reversed = c.from !== r.from || c.to !== r.to || c.offset.some((n, k) => n !== (r.offset[k] ?? 0));
+        r.bond = { from: c.from, to: c.to, offset: c.offset, distance, span: r.span, shell: r.shell, reversed };
       }
       bonds.push(r.bond);
     }

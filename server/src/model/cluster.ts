@@ -3,7 +3,7 @@
 // This is the neutral description the exact solver and `spinwright export` use. Model layer.
 import { add3, mulMatVec3, scale3, transpose3 } from "../physics/linalg3";
 import type { ClusterBond, Mat3, SpinCluster, Vec3 } from "../physics/types";
-import type { SpinModel } from "./model";
+import { bondMatrix, type SpinModel } from "./model";
 import { MU_B_MEV_PER_T } from "./units";
 
 export interface FiniteCluster {
@@ -92,7 +92,7 @@ export function buildFiniteCluster(model: SpinModel, cellsOverride?: readonly nu
           selfWrapped++;
           continue;
         }
-        bonds.push({ i, j, matrix: term.matrixMeV });
+        bonds.push({ i, j, matrix: bondMatrix(term, b) });
         bondTerms.push(term.index);
       }
     }

@@ -3,6 +3,7 @@
 // tensors, g-tensors, the field and the cluster. Canonical units: meV, T, GHz. Model layer.
 import type { Span } from "../base/text";
 import type { ExchangeDecomposition } from "../physics/symmetry";
+import { transpose3 } from "../physics/linalg3";
 import type { Mat3, Vec3 } from "../physics/types";
 import type { Value } from "./evaluate";
 
@@ -48,6 +49,13 @@ export interface Bond {
   readonly span: Span;
   /** Neighbour shell the bond belongs to (1 = nearest). */
   readonly shell: number | null;
+  /**
+   * The bond is stored in canonical orientation (model/lattice canonicalBond); true when the file
+   * wrote it from its other end (`B -> A + (-n)`). Then the term's matrix J acts as
+   * S_to . J . S_from, which is S_from . J^T . S_to in the stored orientation (operators on
+   * different sites commute): use `bondMatrix`.
+   */
+  readonly reversed: boolean;
 }
 
 export interface ExchangeTerm {
@@ -136,4 +144,13 @@ export interface SpinModel {
   readonly expect: ExpectSpec | null;
   /** Definitions of and references to names, in no meaningful order (sort by span to list them). */
   readonly symbols: readonly SymbolOccurrence[];
+}
+
+/**
+ * The matrix J_b of one bond of a term in the bond's stored orientation, H_b = S_from . J_b . S_to:
+ * the term's matrix, transposed when the file wrote the bond from its other end (derivable:
+ * S_a . J . S_b = S_b . J^T . S_a for operators on different sites).
+ */
+export function bondMatrix(term: { readonly matrixMeV: Mat3 }, bond: Bond): Mat3 {
+  return bond.reversed ? transpose3(term.matrixMeV) : term.matrixMeV;
 }
