@@ -14,6 +14,13 @@ function run(...args: string[]) {
   return { code: r.status, out: r.stdout, err: r.stderr };
 }
 
+/** Writes a model text to a fresh temporary directory; returns the file's path. */
+function modelFile(name: string, text: string): string {
+  const file = join(mkdtempSync(join(tmpdir(), "spw-")), name);
+  writeFileSync(file, text);
+  return file;
+}
+
 beforeAll(() => {
   if (!existsSync(cli)) spawnSync(process.execPath, [join(root, "scripts", "build.mjs")], { cwd: root });
 });
@@ -33,12 +40,7 @@ describe("spinwright CLI", () => {
       expect(r.code, sample).toBe(0);
     }
     // Numbers listed with Array.map once got the list index as their digit count.
-    const dir = mkdtempSync(join(tmpdir(), "spw-report-"));
-    const file = join(dir, "tilted.spw");
-    writeFileSync(
-      file,
-      'model "tilted" {\n  spin 1/2\n  convention antiferro-positive\n  lattice chain sites Cu\n  let J = 1 meV\n  let n = (0.123456, 2.5, 3)\n  let B = 3 T\n  let A = [[1, 0, 0], [0, 1, 0], [0, 0, 2]] * 1 meV\n  exchange heisenberg(J) on shell 1\n  g Cu = (2.05, 2.1, 2.25)\n  field 1 T along (1, 0, 1)\n}\n',
-    );
+    const file = modelFile("tilted.spw", 'model "tilted" {\n  spin 1/2\n  convention antiferro-positive\n  lattice chain sites Cu\n  let J = 1 meV\n  let n = (0.123456, 2.5, 3)\n  let B = 3 T\n  let A = [[1, 0, 0], [0, 1, 0], [0, 0, 2]] * 1 meV\n  exchange heisenberg(J) on shell 1\n  g Cu = (2.05, 2.1, 2.25)\n  field 1 T along (1, 0, 1)\n}\n');
     const r = run("report", file);
     expect(r.err).toBe("");
     expect(r.code).toBe(0);
@@ -50,12 +52,7 @@ describe("spinwright CLI", () => {
   });
 
   it("report lists each bond as written, with a matrix term's isotropic part named as such", () => {
-    const dir = mkdtempSync(join(tmpdir(), "spw-report-"));
-    const file = join(dir, "reversed.spw");
-    writeFileSync(
-      file,
-      'model "reversed" {\n  spin 1/2\n  convention antiferro-positive\n  lattice chain sites V\n  exchange heisenberg(1 meV) on V -> V + (1)\n  exchange dm(-0.1 meV, (0, 0, 1)) on V -> V + (-1)\n  exchange matrix([[0 meV, -0.1 meV, 0 meV], [0.1 meV, 0 meV, 0 meV], [0 meV, 0 meV, 0 meV]]) on V -> V + (1)\n}\n',
-    );
+    const file = modelFile("reversed.spw", 'model "reversed" {\n  spin 1/2\n  convention antiferro-positive\n  lattice chain sites V\n  exchange heisenberg(1 meV) on V -> V + (1)\n  exchange dm(-0.1 meV, (0, 0, 1)) on V -> V + (-1)\n  exchange matrix([[0 meV, -0.1 meV, 0 meV], [0.1 meV, 0 meV, 0 meV], [0 meV, 0 meV, 0 meV]]) on V -> V + (1)\n}\n');
     const r = run("report", file);
     expect(r.code).toBe(0);
     expect(r.out).toContain("  dm = -0.1 meV on V -> V + (-1)\n");
@@ -145,12 +142,7 @@ describe("spinwright solve and --exact", () => {
     // Rotating site j by j theta about D (tan theta = D/J) maps the q = 0 mode to the magnon at
     // q = theta of an XXZ chain (derivable); above the polarized ferromagnet that magnon sits at
     // h + |J| - sqrt(J^2 + D^2) cos theta = h, so the line stays single, unlike the AF chain's doublet.
-    const dir = mkdtempSync(join(tmpdir(), "spw-fdm-"));
-    const file = join(dir, "ferro-dm.spw");
-    writeFileSync(
-      file,
-      'model "ferro-dm" {\n  spin 1/2\n  convention antiferro-positive\n  lattice chain sites Cu\n  exchange heisenberg(-1 meV) on shell 1\n  exchange dm(0.1 meV, (0, 0, 1)) on shell 1\n  g Cu = 2\n  field 2 T along (0, 0, 1)\n  cluster 8 periodic\n}\n',
-    );
+    const file = modelFile("ferro-dm.spw", 'model "ferro-dm" {\n  spin 1/2\n  convention antiferro-positive\n  lattice chain sites Cu\n  exchange heisenberg(-1 meV) on shell 1\n  exchange dm(0.1 meV, (0, 0, 1)) on shell 1\n  g Cu = 2\n  field 2 T along (0, 0, 1)\n  cluster 8 periodic\n}\n');
     const analyzed = JSON.parse(run("analyze", file).out);
     expect(analyzed.resonance.protected).toBe(false);
     expect(analyzed.resonance.dmDoublet).toBeNull();

@@ -35,8 +35,8 @@ let lastSums: { readonly exchanges: SpinModel["exchanges"]; readonly sums: Reado
 /**
  * Sum of bond matrices per neighbour distance index k (offset k along a chain with one site per
  * cell). Bonds are stored in canonical orientation (model/lattice canonicalBond: for from = to the
- * first non-zero offset component is positive), so k = |offset| and each matrix adds as written.
- * The sums are fresh matrices, added in place in the order of the terms.
+ * first non-zero offset component is positive), so k = |offset|, and each bond adds its matrix in
+ * that orientation (bondMatrix). The sums are fresh matrices, added in place in term order.
  */
 export function chainBondSums(model: SpinModel): ReadonlyMap<number, Mat3> {
   if (lastSums && lastSums.exchanges === model.exchanges) return lastSums.sums;

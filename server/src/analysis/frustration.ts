@@ -30,7 +30,7 @@ const cache = new Map<string, FrustrationGroup[]>();
 let last: {
   readonly lattice: object;
   readonly terms: readonly ExchangeTerm[];
-  readonly signs: readonly (readonly [string, number])[];
+  readonly signs: readonly BondSign[];
   readonly groups: FrustrationGroup[];
 } | null = null;
 
@@ -52,10 +52,10 @@ function sameGeometry(a: readonly ExchangeTerm[], b: readonly ExchangeTerm[]): b
   return true;
 }
 
-function sameSigns(a: readonly (readonly [string, number])[], b: readonly (readonly [string, number])[]): boolean {
-  if (a.length !== b.length) return false;
-  for (let i = 0; i < a.length; i++) if ((a[i] as [string, number])[0] !== (b[i] as [string, number])[0] || (a[i] as [string, number])[1] !== (b[i] as [string, number])[1]) return false;
-  return true;
+type BondSign = readonly [bond: string, sign: number];
+
+function sameSigns(a: readonly BondSign[], b: readonly BondSign[]): boolean {
+  return a.length === b.length && a.every(([bond, sign], i) => bond === b[i]?.[0] && sign === b[i]?.[1]);
 }
 
 /**
@@ -78,7 +78,7 @@ export function analyzeFrustration(model: SpinModel): FrustrationGroup[] {
   }
   let scale = 0;
   for (const j of sums.values()) scale = Math.max(scale, Math.abs(j));
-  const signs: [string, number][] = [];
+  const signs: BondSign[] = [];
   for (const [bond, j] of sums) signs.push([bond, Math.abs(j) <= 1e-12 * scale ? 0 : Math.sign(j)]);
   // A new value that keeps every sign (most typing in a coupling): the last groups stand.
   if (last && last.lattice === L && sameGeometry(last.terms, terms) && sameSigns(last.signs, signs)) {

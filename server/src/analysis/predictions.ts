@@ -122,10 +122,10 @@ function betheMagnetization(delta: number, h: number): ReturnType<typeof xxzMagn
 
 const none = <T>(reason: string, method = "none"): Valued<T> => ({ value: null, method, valid: false, reason });
 
-/** Chain couplings about the field axis n, or a reason why the chain is not U(1) about n. */
 /** Scratch for chainCouplings: the symmetric part of one bond sum, row-major. */
 const SYM = new Float64Array(9);
 
+/** Chain couplings about the field axis n, or a reason why the chain is not U(1) about n. */
 export function chainCouplings(model: SpinModel, axis: Vec3): { ok: true; value: ChainCouplings } | { ok: false; reason: string } {
   const L = model.lattice;
   if (!L || L.dimension !== 1 || L.sites.length !== 1) return { ok: false, reason: "the field-dependent predictions are implemented for chains with one site per cell" };
