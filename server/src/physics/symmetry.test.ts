@@ -10,6 +10,7 @@ import {
   decomposeGTensor,
   decomposeSingleIon,
   effectiveField,
+  forgetSymmetryFacts,
   resonanceProtection,
   rotationResidual,
   symmetricEigen3,
@@ -410,6 +411,65 @@ describe("rotationResidual", () => {
       const n: Vec3 = k < axes.length * 100 ? axes[k % axes.length]! : ([r(), r(), r()] as Vec3);
       const reference = normMat3(subMat3(mulMat3(m, crossMatrix3(n)), mulMat3(crossMatrix3(n), m)));
       expect(Object.is(rotationResidual(m, n), reference)).toBe(true);
+    }
+  });
+});
+
+describe("classifySymmetry keeps the facts of unchanged bond groups", () => {
+  // The classifier hands a group's decomposition, axes and sentences on to the next call when the
+  // group's entries and the tolerance are bit-identical. Edit chains in which most groups stay,
+  // one changes (or one of its entries), the largest coupling moves the tolerance (and with it whether a tiny DM group
+  // breaks SU(2)), groups come and go and the field turns: every kept result must equal a fresh
+  // classification of the same input.
+  it("gives what a fresh classification gives along random edit chains", () => {
+    const r = rng(20261203);
+    const pick = <T>(xs: readonly T[]): T => xs[Math.floor((r() + 0.5) * xs.length) % xs.length]!;
+    const n = normalize3([0.3, -0.2, 1])!;
+    const kinds: (() => Mat3)[] = [
+      () => heisenberg(1 + r()),
+      () => uniaxialMatrix3(Z, 1 + r(), 0.3 * r(), 0),
+      () => uniaxialMatrix3(Z, 1, 0, 0.2 * r()),
+      () => uniaxialMatrix3(n, 0.8, 0.1 * r(), 0.1),
+      () => diag3([1 + r(), 1 + 0.5 * r(), 1]),
+      () => [
+        [r(), r(), r()],
+        [r(), r(), r()],
+        [r(), r(), r()],
+      ],
+      // A DM vector of norm 2e-9: above the tolerance 1e-9 * scale for scale about 1, below it
+      // once the largest coupling is ten times larger.
+      () => uniaxialMatrix3(Z, 0, 0, 2e-9),
+    ];
+    for (let chain = 0; chain < 40; chain++) {
+      const groups: Mat3[] = Array.from({ length: 2 + (chain % 5) }, () => pick(kinds)());
+      let field: Vec3 = [0, 0, 1];
+      const inputs: SymmetryInput[] = [];
+      for (let step = 0; step < 25; step++) {
+        const what = pick(["same", "one", "entry", "entry", "largest", "add", "drop", "field", "tiny"] as const);
+        if (what === "entry") {
+          // One entry of one group changes (a DM component typed, say); the other eight stay.
+          const k = Math.floor((r() + 0.5) * groups.length) % groups.length;
+          const m = groups[k]!.map((row) => [...row]) as unknown as number[][];
+          const at = Math.floor((r() + 0.5) * 9) % 9;
+          m[Math.floor(at / 3)]![at % 3]! += 0.1 * r();
+          groups[k] = m as unknown as Mat3;
+        } else if (what === "one") groups[Math.floor((r() + 0.5) * groups.length) % groups.length] = pick(kinds)();
+        else if (what === "largest") groups[0] = heisenberg(pick([1, 10, 0.5]));
+        else if (what === "add") groups.push(pick(kinds)());
+        else if (what === "drop" && groups.length > 1) groups.pop();
+        else if (what === "field") field = pick<Vec3>([[0, 0, 1], [1, 0, 0], normalize3([1, 1, 0])!, [0, 0, 0]]);
+        else if (what === "tiny") groups[groups.length - 1] = uniaxialMatrix3(Z, 0, 0, 2e-9);
+        inputs.push({
+          bonds: groups.map((m, k) => ({ id: `b${k}`, matrix: m, sites: [k, k + 1] as [number, number] })),
+          singleIon: [],
+          fields: [0, 1].map((s) => ({ id: `f${s}`, vector: field, site: s })),
+        });
+      }
+      const kept = inputs.map((input) => structuredClone(classifySymmetry(input)));
+      inputs.forEach((input, k) => {
+        forgetSymmetryFacts();
+        expect(kept[k], `chain ${chain}, step ${k}`).toStrictEqual(structuredClone(classifySymmetry(input)));
+      });
     }
   });
 });

@@ -448,6 +448,54 @@ interface AnisotropicTerm {
   readonly anisotropic: Mat3;
   /** symmetricEigen3(anisotropic), made when first asked for (candidate axes ask up to twice). */
   eig?: SymmetricEigen3;
+  /** The facts of its bond group, for a bond term (they keep the eigen-decomposition too). */
+  readonly facts?: BondFacts;
+}
+
+/**
+ * What one summed bond tensor gives at one tolerance: its decomposition, and the parts of its
+ * findings that depend on nothing else (the DM axis and matrix; the anisotropy's own axis, kind
+ * and sentence). Each is a pure function of the nine matrix entries and the tolerance.
+ */
+interface BondFacts {
+  readonly entries: readonly number[];
+  readonly tolerance: number;
+  readonly d: ExchangeDecomposition;
+  /** The group breaks SU(2): its DM or anisotropic part exceeds the tolerance. */
+  readonly breaks: boolean;
+  eig?: SymmetricEigen3;
+  dm?: { readonly axis: Vec3; readonly matrix: Mat3 };
+  anisotropy?: { readonly axis: Vec3 | null; readonly kind: FindingKind; readonly detail: string };
+}
+
+/**
+ * The bond facts of the last classification, by group position. A group at the same position
+ * whose entries are bit-identical (Object.is, so -0 and NaN count as written) at the same
+ * tolerance takes them over: typing into one coupling changes one group, and the others keep
+ * their eigen-decompositions and sentences. Correct for any caller, since the facts are pure
+ * functions of what is compared; a test holds kept facts to fresh ones.
+ */
+let lastBondFacts: readonly BondFacts[] = [];
+
+function bondFacts(k: number, m: Mat3, tolerance: number): BondFacts {
+  const last = lastBondFacts[k];
+  if (last && Object.is(last.tolerance, tolerance)) {
+    const e = last.entries;
+    const [r0, r1, r2] = m;
+    if (
+      Object.is(e[0], r0[0]) && Object.is(e[1], r0[1]) && Object.is(e[2], r0[2]) &&
+      Object.is(e[3], r1[0]) && Object.is(e[4], r1[1]) && Object.is(e[5], r1[2]) &&
+      Object.is(e[6], r2[0]) && Object.is(e[7], r2[1]) && Object.is(e[8], r2[2])
+    )
+      return last;
+  }
+  const d = decomposeExchange(m);
+  return { entries: [...m[0], ...m[1], ...m[2]], tolerance, d, breaks: d.norms.dm > tolerance || d.norms.anisotropic > tolerance };
+}
+
+/** Forgets the kept bond facts (tests compare kept and fresh classifications). */
+export function forgetSymmetryFacts(): void {
+  lastBondFacts = [];
 }
 
 function dedupeAxes(axes: readonly Vec3[]): Vec3[] {
@@ -468,7 +516,7 @@ function candidateAxes(term: AnisotropicTerm, tolerance: number): Vec3[] {
   const out: Vec3[] = [];
   const d = normalize3(term.dm);
   if (d && norm3(term.dm) > tolerance) out.push(canonicalAxis(d));
-  const eig = (term.eig ??= symmetricEigen3(term.anisotropic));
+  const eig = termEig(term);
   const [l0, l1, l2] = eig.values;
   const simple = [l1 - l0 > tolerance, l1 - l0 > tolerance && l2 - l1 > tolerance, l2 - l1 > tolerance];
   simple.forEach((isSimple, k) => {
@@ -476,6 +524,14 @@ function candidateAxes(term: AnisotropicTerm, tolerance: number): Vec3[] {
     if (isSimple && v) out.push(canonicalAxis(v));
   });
   return dedupeAxes(out);
+}
+
+/** symmetricEigen3 of a term's anisotropic part, made once (and kept with its bond facts). */
+function termEig(term: AnisotropicTerm): SymmetricEigen3 {
+  if (term.eig) return term.eig;
+  const eig = term.facts ? (term.facts.eig ??= symmetricEigen3(term.anisotropic)) : symmetricEigen3(term.anisotropic);
+  term.eig = eig;
+  return eig;
 }
 
 /** The symmetry left by one tensor alone: the first of its candidate axes that it commutes with. */
@@ -600,12 +656,14 @@ export function classifySymmetry(input: SymmetryInput): SymmetryClassification {
 
   // Terms that break SU(2).
   const terms: AnisotropicTerm[] = [];
-  for (const b of bondGroups) {
-    const d = decomposeExchange(b.matrix);
-    if (d.norms.dm > tolerance || d.norms.anisotropic > tolerance) {
-      terms.push({ ids: b.ids, source: "bond", matrix: b.matrix, dm: d.dm, anisotropic: d.anisotropic });
-    }
+  const facts: BondFacts[] = [];
+  for (let k = 0; k < bondGroups.length; k++) {
+    const b = bondGroups[k] as (typeof bondGroups)[number];
+    const f = bondFacts(k, b.matrix, tolerance);
+    facts.push(f);
+    if (f.breaks) terms.push({ ids: b.ids, source: "bond", matrix: b.matrix, dm: f.d.dm, anisotropic: f.d.anisotropic, facts: f });
   }
+  lastBondFacts = facts;
   for (const s of ionGroups) {
     const t = symmetricTracelessPart3(s.matrix);
     if (normMat3(t) > tolerance) {
@@ -676,10 +734,15 @@ export function classifySymmetry(input: SymmetryInput): SymmetryClassification {
   for (const term of terms) {
     const id = term.ids[0] ?? "";
     if (term.source === "bond") {
+      const f = term.facts as BondFacts;
       const dmNorm = norm3(term.dm);
       if (dmNorm > tolerance) {
-        const dmMatrix = scaleMat3(crossMatrix3(term.dm), -1); // antisymmetric part = -[D]_x
-        const axis = canonicalAxis(normalize3(term.dm) ?? [0, 0, 1]);
+        const dm = (f.dm ??= {
+          matrix: scaleMat3(crossMatrix3(term.dm), -1), // antisymmetric part = -[D]_x
+          axis: canonicalAxis(normalize3(term.dm) ?? [0, 0, 1]),
+        });
+        const dmMatrix = dm.matrix;
+        const axis = dm.axis;
         breaking.push({
           id,
           ids: term.ids,
@@ -693,21 +756,16 @@ export function classifySymmetry(input: SymmetryInput): SymmetryClassification {
       }
       const anisoNorm = normMat3(term.anisotropic);
       if (anisoNorm > tolerance) {
-        term.eig ??= symmetricEigen3(term.anisotropic);
-        const alone: AnisotropicTerm = { ...term, dm: [0, 0, 0] }; // shares the eigen-decomposition
-        const axis = singleTermAxis(term.anisotropic, alone, tolerance);
-        const diagonal = isDiagonal(term.anisotropic, tolerance);
-        const kind: FindingKind = axis || diagonal ? "exchange-anisotropy" : "off-diagonal-symmetric";
-        const eig = symmetricEigen3(addMat3(term.anisotropic, scaleMat3(IDENTITY3, trace3(term.matrix) / 3)));
+        const own = (f.anisotropy ??= anisotropyAlone(term, tolerance));
         breaking.push({
           id,
           ids: term.ids,
-          kind,
-          residual: axis ? "u1" : "none",
-          axis,
+          kind: own.kind,
+          residual: own.axis ? "u1" : "none",
+          axis: own.axis,
           magnitude: anisoNorm,
           compatibleWithAxis: compatible(term.anisotropic),
-          detail: exchangeAnisotropyDetail(kind, axis, eig.values),
+          detail: own.detail,
         });
       }
     } else {
@@ -776,6 +834,16 @@ export function classifySymmetry(input: SymmetryInput): SymmetryClassification {
     notes,
     tolerance,
   };
+}
+
+/** The symmetry a bond term's anisotropic part leaves alone, its kind and its sentence. */
+function anisotropyAlone(term: AnisotropicTerm, tolerance: number): { axis: Vec3 | null; kind: FindingKind; detail: string } {
+  const alone: AnisotropicTerm = { ...term, dm: [0, 0, 0], eig: termEig(term) }; // shares the eigen-decomposition
+  const axis = singleTermAxis(term.anisotropic, alone, tolerance);
+  const diagonal = isDiagonal(term.anisotropic, tolerance);
+  const kind: FindingKind = axis || diagonal ? "exchange-anisotropy" : "off-diagonal-symmetric";
+  const eig = symmetricEigen3(addMat3(term.anisotropic, scaleMat3(IDENTITY3, trace3(term.matrix) / 3)));
+  return { axis, kind, detail: exchangeAnisotropyDetail(kind, axis, eig.values) };
 }
 
 /** `angleTolerance` = tolerance / |D|: the angle at which the DM term's own residual reaches it. */
