@@ -55,7 +55,7 @@ export function analyzePhysics(model: SpinModel, options: AnalysisOptions = {}):
   diagnostics.push(...resonance.diagnostics);
   const base = { symmetry, couplings, frustration, family, resonance: resonance.summary };
   const predictions = predict(model, base, options.exact);
-  return { summary: { ...base, predictions }, diagnostics };
+  return { summary: { symmetry, couplings, frustration, family, resonance: resonance.summary, predictions }, diagnostics };
 }
 
 // ---- keeping the physics of the version before -------------------------------------------------

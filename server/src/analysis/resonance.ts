@@ -6,7 +6,7 @@ import { diag, type Diagnostic } from "../base/diagnostics";
 import type { SpinModel } from "../model/model";
 import { MEV_PER_CM, MEV_PER_GHZ, MEV_PER_K, MU_B_MEV_PER_T } from "../model/units";
 import { dot3, mulMatVec3, norm3, normalize3, sub3, transpose3 } from "../physics/linalg3";
-import { resonanceProtection } from "../physics/symmetry";
+import { larmorProtection } from "../physics/symmetry";
 import type { Vec3 } from "../physics/types";
 import { kindText, siteFieldsMeV, type SymmetryResult } from "./symmetryCheck";
 import type { FamilyResult } from "./family";
@@ -40,7 +40,7 @@ export function analyzeResonance(model: SpinModel, sym: SymmetryResult, family: 
   const n = model.field?.direction ?? ([0, 0, 1] as Vec3);
   const gAlong = (model.lattice?.sites ?? []).map((s) => norm3(mulMatVec3(transpose3(s.g), n)));
   const z = uniform && model.field ? norm3(first) : null;
-  const p = resonanceProtection(sym.classification);
+  const p = larmorProtection(sym.classification);
   const breakingTerms = sym.breaking.map((b) => kindText(b.kind));
   let probe: ResonanceSummary["probe"] = null;
   if (model.probe) {

@@ -35,18 +35,39 @@ export function siteFieldsMeV(model: SpinModel): Vec3[] {
   return (model.lattice?.sites ?? []).map((s) => scale3(mulMatVec3(transpose3(s.g), B), MU_B_MEV_PER_T));
 }
 
-/** The classifier's ids of exchange terms by index, made once ("exchange:3"). */
+/** The classifier's ids of exchange terms by index, made once ("exchange:3"), and back. */
 const EXCHANGE_IDS: string[] = [];
+const EXCHANGE_INDEX = new Map<string, number>();
+
+function exchangeId(index: number): string {
+  let id = EXCHANGE_IDS[index];
+  if (id === undefined) {
+    id = EXCHANGE_IDS[index] = `exchange:${index}`;
+    EXCHANGE_INDEX.set(id, index);
+  }
+  return id;
+}
+
+/** Bit of each finding kind, for the per-place set of kinds already reported. */
+const KIND_BIT: Record<FindingKind, number> = {
+  "exchange-anisotropy": 1,
+  dm: 2,
+  "off-diagonal-symmetric": 4,
+  "single-ion": 8,
+  "single-ion-rhombic": 16,
+  "non-uniform-field": 32,
+  "transverse-field": 64,
+};
 
 export function analyzeSymmetry(model: SpinModel): SymmetryResult {
+  // Where each classifier id is written: exchange terms by index, the rest by id.
+  const termOf: (SpinModel["exchanges"][number] | undefined)[] = [];
   const spans = new Map<string, Span>();
-  const exchangeOf = new Map<string, (typeof model.exchanges)[number]>();
   const pairs = new Map<string, number>();
   const bonds: { id: string; matrix: Mat3; sites: [number, number] }[] = [];
   for (const term of model.exchanges) {
-    const id = (EXCHANGE_IDS[term.index] ??= `exchange:${term.index}`);
-    spans.set(id, term.span);
-    exchangeOf.set(id, term);
+    const id = exchangeId(term.index);
+    termOf[term.index] = term;
     for (const b of term.bonds) {
       const key = bondKeyOf(b);
       let p = pairs.get(key);
@@ -71,24 +92,26 @@ export function analyzeSymmetry(model: SpinModel): SymmetryResult {
   });
   const c = classifySymmetry({ bonds, singleIon, fields });
   const breaking: BreakingTerm[] = [];
-  const seen = new Set<string>();
-  const carries = (id: string, kind: FindingKind): boolean => {
-    // Findings are per bond pair; name only the terms that carry the breaking part themselves.
-    if (!id.startsWith("exchange:")) return true;
-    const term = exchangeOf.get(id);
-    if (!term) return false;
-    const d = term.parts;
-    const tol = 1e-12 * Math.max(1e-300, Math.abs(d.isotropic) + d.norms.dm + d.norms.anisotropic);
-    return kind === "dm" ? d.norms.dm > tol : d.norms.anisotropic > tol;
-  };
+  // Kinds already named at each place (span start), as bits of KIND_BIT.
+  const named = new Map<number, number>();
   for (const f of c.breaking) {
     for (const id of f.ids) {
-      if (!carries(id, f.kind)) continue;
-      const span = spans.get(id);
+      const index = EXCHANGE_INDEX.get(id);
+      let span: Span | undefined;
+      if (index !== undefined) {
+        const term = termOf[index];
+        if (!term) continue;
+        // Findings are per bond pair; name only the terms that carry the breaking part themselves.
+        const d = term.parts;
+        const tol = 1e-12 * Math.max(1e-300, Math.abs(d.isotropic) + d.norms.dm + d.norms.anisotropic);
+        if (!(f.kind === "dm" ? d.norms.dm > tol : d.norms.anisotropic > tol)) continue;
+        span = term.span;
+      } else span = spans.get(id);
       if (!span) continue;
-      const key = `${f.kind}@${span.start}`;
-      if (seen.has(key)) continue;
-      seen.add(key);
+      const bit = KIND_BIT[f.kind];
+      const before = named.get(span.start) ?? 0;
+      if (before & bit) continue;
+      named.set(span.start, before | bit);
       breaking.push({ kind: f.kind, span, residual: f.residual, axis: f.axis, consequence: f.detail, magnitudeMeV: f.magnitude });
     }
   }

@@ -430,7 +430,7 @@ describe("classifySymmetry keeps the facts of unchanged bond groups", () => {
       () => uniaxialMatrix3(Z, 1 + r(), 0.3 * r(), 0),
       () => uniaxialMatrix3(Z, 1, 0, 0.2 * r()),
       () => uniaxialMatrix3(n, 0.8, 0.1 * r(), 0.1),
-      () => diag3([1 + r(), 1 + 0.5 * r(), 1]),
+      () => diag3(1 + r(), 1 + 0.5 * r(), 1),
       () => [
         [r(), r(), r()],
         [r(), r(), r()],

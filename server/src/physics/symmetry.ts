@@ -888,22 +888,25 @@ export interface ResonanceProtection {
  * A uniform but anisotropic g-tensor only changes h = muB g^T B, so it keeps the protection.
  */
 export function resonanceProtection(c: SymmetryClassification): ResonanceProtection {
+  const p = larmorProtection(c);
+  return { ...p, breakingIds: p.protected ? [] : [...new Set(c.breaking.flatMap((f) => f.ids))] };
+}
+
+/** resonanceProtection without the list of breaking ids (what the analysis reads on every edit). */
+export function larmorProtection(c: SymmetryClassification): { readonly protected: boolean; readonly reason: string } {
   if (c.h0 === "su2" && c.fieldsUniform) {
     return {
       protected: true,
-      breakingIds: [],
       reason:
         "H0 is SU(2)-symmetric and every site sees the same effective field, so by the Larmor theorem the q = 0 resonance sits exactly at the Zeeman energy for any couplings.",
     };
   }
-  const breakingIds = [...new Set(c.breaking.flatMap((f) => f.ids))];
   const why =
     c.h0 !== "su2"
       ? "H0 is not SU(2)-symmetric"
       : "the effective field is not the same on every site";
   return {
     protected: false,
-    breakingIds,
     reason: `The q = 0 resonance is not protected because ${why}: it may shift, split and broaden, so inferences that rely on the Larmor pinning do not hold.`,
   };
 }
