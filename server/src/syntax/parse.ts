@@ -280,9 +280,6 @@ interface Resume {
   readonly delta: number;
 }
 
-/** Thrown inside the reader when the new version's pieces line up with the old ones again. */
-const LINED_UP = { linedUp: true };
-
 // ---- the whole file -------------------------------------------------------------------------
 
 class SpwParse implements ParsedFile {
@@ -417,6 +414,9 @@ class SpwParse implements ParsedFile {
     let scanFrom = 0;
     let scanLine = 1;
     let current: Piece;
+    // Set when the new version's pieces line up with the old ones again: reading stops there
+    // (every step returns at once, without touching the pieces and blocks lineUp completed).
+    let linedUp = false;
     const old = resume?.previous ?? null;
     let oldIndex = resume ? resume.index : 0;
 
@@ -503,7 +503,7 @@ class SpwParse implements ParsedFile {
         b.end = start + o.firstLength;
       }
       for (let k = o.blocksBefore; k < old.blocks.length; k++) blocks.push(shiftBlock(old.blocks[k] as BlockLayout, delta, lines));
-      throw LINED_UP;
+      linedUp = true;
     };
 
     const open = (kind: PieceKind, t: TypedRef): Piece => {
@@ -511,8 +511,10 @@ class SpwParse implements ParsedFile {
         const oldStart = t.start - resume.delta;
         while (oldIndex < old.pieces.length && (old.pieces[oldIndex] as Piece).start < oldStart) oldIndex++;
         const o = old.pieces[oldIndex];
-        if (o && o.start === oldStart && o.kind === kind && !o.entryPending && o.entry === entry && o.entryAfterLattice === entryAfterLattice && o.blocksBefore === blocks.length)
+        if (o && o.start === oldStart && o.kind === kind && !o.entryPending && o.entry === entry && o.entryAfterLattice === entryAfterLattice && o.blocksBefore === blocks.length) {
           lineUp(o, t.start, t.line);
+          return current;
+        }
       }
       current.end = t.start;
       current = {
@@ -538,11 +540,15 @@ class SpwParse implements ParsedFile {
       if (state === "lattice" && (type === RBrace || type === Kw.spin || !STATEMENT_START_SET.has(type))) {
         if (type === RBrace) state = "body";
       } else if (STATEMENT_START_SET.has(type)) {
-        b.pieces.push(open("statements", ref(start, end, line, type)));
+        const piece = open("statements", ref(start, end, line, type));
+        if (linedUp) return;
+        b.pieces.push(piece);
         state = "body";
       } else if (current.kind !== "statements") {
         // Stray tokens before the first statement keyword form a piece of their own.
-        b.pieces.push(open("statements", ref(start, end, line, type)));
+        const piece = open("statements", ref(start, end, line, type));
+        if (linedUp) return;
+        b.pieces.push(piece);
       } else if (afterLatticeKeyword && type === LBrace) state = "lattice";
       afterLatticeKeyword = type === Kw.lattice;
       lastStart = start;
@@ -555,9 +561,12 @@ class SpwParse implements ParsedFile {
         const close: TypedRef = pendingClose;
         const b = block as BlockLayout;
         pendingClose = null;
-        if (t && t.line === close.line && t.type !== Kw.model) bodyToken(b, close.type, close.start, close.end, close.line);
-        else {
+        if (t && t.line === close.line && t.type !== Kw.model) {
+          bodyToken(b, close.type, close.start, close.end, close.line);
+          if (linedUp) return;
+        } else {
           open("close", close);
+          if (linedUp) return;
           b.close = close;
           b.last = lastRef();
           b.end = close.end;
@@ -569,6 +578,7 @@ class SpwParse implements ParsedFile {
       if (state === "top") {
         if (t.type === Kw.model) {
           const headerPiece = open("header", t);
+          if (linedUp) return;
           block = { headerPiece, model: t, headerTokens: [], name: null, nameQuoted: false, brace: null, diagnostics: [], pieces: [], close: null, last: null, closeError: null, end: t.end };
           blocks.push(block);
           setLast(t);
@@ -608,29 +618,24 @@ class SpwParse implements ParsedFile {
       else bodyToken(b, t.type, t.start, t.end, t.line);
     };
 
-    try {
-      const scanner = new Scanner(text, scanFrom, text.length, scanLine);
-      for (let kind = scanner.next(); kind !== END; kind = scanner.next()) {
-        if (kind === COMMENT || kind === ERROR) continue;
-        const type = scanner.type;
-        entry = state;
-        entryAfterLattice = afterLatticeKeyword;
-        entryPending = pendingClose !== null;
-        // The common case, a token inside a statement, without making an object for it.
-        if ((state === "body" || state === "lattice") && pendingClose === null && type !== Kw.model && type !== RBrace && !STATEMENT_START_SET.has(type)) {
-          bodyToken(block as BlockLayout, type, scanner.start, scanner.end, scanner.line);
-          continue;
-        }
-        step(ref(scanner.start, scanner.end, scanner.line, type));
-      }
+    const scanner = new Scanner(text, scanFrom, text.length, scanLine);
+    for (let kind = scanner.next(); kind !== END; kind = scanner.next()) {
+      if (kind === COMMENT || kind === ERROR) continue;
+      const type = scanner.type;
       entry = state;
       entryAfterLattice = afterLatticeKeyword;
       entryPending = pendingClose !== null;
-      step(null);
-    } catch (e) {
-      if (e !== LINED_UP) throw e;
-      return;
+      // The common case, a token inside a statement, without making an object for it.
+      if ((state === "body" || state === "lattice") && pendingClose === null && type !== Kw.model && type !== RBrace && !STATEMENT_START_SET.has(type)) {
+        bodyToken(block as BlockLayout, type, scanner.start, scanner.end, scanner.line);
+      } else step(ref(scanner.start, scanner.end, scanner.line, type));
+      if (linedUp) return;
     }
+    entry = state;
+    entryAfterLattice = afterLatticeKeyword;
+    entryPending = pendingClose !== null;
+    step(null);
+    if (linedUp) return;
     const last: BlockLayout | null = block;
     if (last) {
       const previousToken = lastRef();
