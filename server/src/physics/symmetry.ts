@@ -893,23 +893,32 @@ export function resonanceProtection(c: SymmetryClassification): ResonanceProtect
 }
 
 /** resonanceProtection without the list of breaking ids (what the analysis reads on every edit). */
-export function larmorProtection(c: SymmetryClassification): { readonly protected: boolean; readonly reason: string } {
-  if (c.h0 === "su2" && c.fieldsUniform) {
-    return {
-      protected: true,
-      reason:
-        "H0 is SU(2)-symmetric and every site sees the same effective field, so by the Larmor theorem the q = 0 resonance sits exactly at the Zeeman energy for any couplings.",
-    };
-  }
-  const why =
-    c.h0 !== "su2"
-      ? "H0 is not SU(2)-symmetric"
-      : "the effective field is not the same on every site";
-  return {
-    protected: false,
-    reason: `The q = 0 resonance is not protected because ${why}: it may shift, split and broaden, so inferences that rely on the Larmor pinning do not hold.`,
-  };
+export function larmorProtection(c: SymmetryClassification): LarmorProtection {
+  if (c.h0 === "su2" && c.fieldsUniform) return PROTECTED;
+  return c.h0 !== "su2" ? UNPROTECTED_H0 : UNPROTECTED_FIELD;
 }
+
+export interface LarmorProtection {
+  readonly protected: boolean;
+  readonly reason: string;
+  /** Why the line is not protected, as a clause ("H0 is not SU(2)-symmetric: it may shift, ..."); empty when protected. */
+  readonly cause: string;
+}
+
+const PROTECTED: LarmorProtection = {
+  protected: true,
+  reason:
+    "H0 is SU(2)-symmetric and every site sees the same effective field, so by the Larmor theorem the q = 0 resonance sits exactly at the Zeeman energy for any couplings.",
+  cause: "",
+};
+
+function unprotected(why: string): LarmorProtection {
+  const cause = `${why}: it may shift, split and broaden, so inferences that rely on the Larmor pinning do not hold.`;
+  return { protected: false, reason: `The q = 0 resonance is not protected because ${cause}`, cause };
+}
+
+const UNPROTECTED_H0 = unprotected("H0 is not SU(2)-symmetric");
+const UNPROTECTED_FIELD = unprotected("the effective field is not the same on every site");
 
 /** Convenience: uniform effective field h = muB g^T B for one g-tensor (energy units of muB B). */
 export function effectiveField(g: Mat3, bohrMagnetonTimesFieldVector: Vec3): Vec3 {
