@@ -464,6 +464,8 @@ interface BondFacts {
   /** The group breaks SU(2): its DM or anisotropic part exceeds the tolerance. */
   readonly breaks: boolean;
   eig?: SymmetricEigen3;
+  /** candidateAxes of the group's term. */
+  candidates?: readonly Vec3[];
   dm?: { readonly axis: Vec3; readonly matrix: Mat3 };
   anisotropy?: { readonly axis: Vec3 | null; readonly kind: FindingKind; readonly detail: string };
 }
@@ -677,9 +679,10 @@ export function classifySymmetry(input: SymmetryInput): SymmetryClassification {
   let h0Axis: Vec3 | null = null;
   if (terms.length > 0) {
     h0 = "none";
-    const strength = (t: AnisotropicTerm): number => Math.max(norm3(t.dm), normMat3(t.anisotropic));
+    // A bond term's norms are its group's (the same functions of the same numbers).
+    const strength = (t: AnisotropicTerm): number => (t.facts ? Math.max(t.facts.d.norms.dm, t.facts.d.norms.anisotropic) : Math.max(norm3(t.dm), normMat3(t.anisotropic)));
     const strongest = [...terms].sort((a, b) => strength(b) - strength(a)).slice(0, 3);
-    const candidates = dedupeAxes(strongest.flatMap((t) => candidateAxes(t, tolerance)));
+    const candidates = dedupeAxes(strongest.flatMap((t) => (t.facts ? (t.facts.candidates ??= candidateAxes(t, tolerance)) : candidateAxes(t, tolerance))));
     for (const n of candidates) {
       if (terms.every((t) => rotationResidual(t.matrix, n) <= tolerance)) {
         h0 = "u1";
