@@ -143,6 +143,10 @@ export function checkExpect(model: SpinModel, sym: SymmetryResult): Diagnostic[]
   const e = model.expect;
   if (!e) return [];
   const computed = sym.h0;
+  const rank = { su2: 2, u1: 1, none: 0 } as const;
+  const wrongAxis = e.claim === "u1" && computed === "u1" && e.axis && sym.axis && Math.abs(Math.abs(dot3(e.axis, sym.axis)) - 1) > 1e-6;
+  // A claim that holds (most edits) needs none of the texts below.
+  if (rank[e.claim] === rank[computed] && !wrongAxis) return [];
   const computedText = describeClass(computed, sym.axis);
   const related: RelatedInfo[] = sym.breaking
     .filter((b) => b.kind !== "non-uniform-field" && b.kind !== "transverse-field")
@@ -151,7 +155,6 @@ export function checkExpect(model: SpinModel, sym: SymmetryResult): Diagnostic[]
   // Offsets would change with every edit above the statement: the fix's extent is a length (from
   // the claim to the end of the statement), so unchanged diagnostics read the same.
   const data = { replacement, replaceLength: e.span.end - e.claimSpan.start };
-  const rank = { su2: 2, u1: 1, none: 0 } as const;
   if (rank[e.claim] > rank[computed]) {
     return [
       diag(
@@ -162,7 +165,7 @@ export function checkExpect(model: SpinModel, sym: SymmetryResult): Diagnostic[]
       ),
     ];
   }
-  if (e.claim === "u1" && computed === "u1" && e.axis && sym.axis && Math.abs(Math.abs(dot3(e.axis, sym.axis)) - 1) > 1e-6) {
+  if (wrongAxis && e.axis) {
     return [
       diag("spw-expect-mismatch", e.claimSpan, `The file expects U(1) about (${e.axis.map((x) => Number(x.toFixed(4))).join(", ")}), but the conserved axis is ${computedText.slice("U(1) about ".length)}. Write 'expect ${replacement}'.`, {
         related,
