@@ -50,7 +50,7 @@ export const DIAGNOSTIC_CODES = {
   "spw-offset-dimension": ["error", "A cell offset with a number of components other than the lattice dimension."],
   "spw-offset-noninteger": ["error", "A cell offset that is not a whole number of cells."],
   "spw-bond-self": ["error", "A bond from a site to itself in the same cell."],
-  "spw-bond-duplicate": ["warning", "The same bond given twice for the same exchange kind (double counting)."],
+  "spw-bond-duplicate": ["warning", "The same bond given twice for the same exchange kind (double counting; a dm term written from the other end enters with the opposite sign)."],
   "spw-shell-empty": ["error", "A neighbour shell the lattice does not have within the search range."],
   "spw-kind-unknown": ["error", "An exchange kind other than heisenberg, xxz, xyz, dm, matrix."],
   "spw-kind-arguments": ["error", "An exchange kind with the wrong number or kind of arguments."],

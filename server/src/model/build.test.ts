@@ -141,3 +141,33 @@ describe("expression precedence and associativity (arithmetic conventions)", () 
     expect(value(expr)).toBeCloseTo(expected, 12);
   });
 });
+
+describe("a bond given twice", () => {
+  // S_j . J . S_i = S_i . J^T . S_j (derivable): written from its other end, a symmetric term is
+  // the same operator again, while a DM vector enters with the opposite sign.
+  const duplicates = (lines: string): string[] =>
+    analyzeDocument(`model "m" {\n convention antiferro-positive\n lattice chain sites A\n let J = 1 K\n${lines}\n}`)
+      .diagnostics.filter((d) => d.code === "spw-bond-duplicate")
+      .map((d) => d.message);
+
+  it("says a DM term written from the other end would cancel, not add", () => {
+    const [message] = duplicates(" exchange dm(J, (0, 0, 1)) on A -> A + (1)\n exchange dm(J, (0, 0, 1)) on A -> A + (-1)");
+    expect(message).toBe(
+      "This dm bond A -> A + (-1) is already given; written from its other end, its DM vector enters with the opposite sign (S_j.J.S_i = S_i.Jᵀ.S_j), so the two would cancel (wholly or in part) rather than add. Only the first is kept; remove one of them, or write both from the same end.",
+    );
+  });
+
+  it("says the same DM bond twice, or a symmetric term from either end, is counted twice", () => {
+    expect(duplicates(" exchange dm(J, (0, 0, 1)) on A -> A + (-1)\n exchange dm(J, (0, 0, 1)) on A -> A + (-1)")).toEqual([
+      "This dm bond A -> A + (-1) is already given; it would be counted twice. Remove one of them.",
+    ]);
+    expect(duplicates(" exchange heisenberg(J) on A -> A + (1)\n exchange heisenberg(J) on A -> A + (-1)")).toEqual([
+      "This heisenberg bond A -> A + (-1) is already given; it would be counted twice. Remove one of them.",
+    ]);
+  });
+
+  it("names both effects for a matrix term written from the other end", () => {
+    const [message] = duplicates(" exchange matrix([[J, J, 0 K], [0 K, J, 0 K], [0 K, 0 K, J]]) on A -> A + (1)\n exchange matrix([[J, J, 0 K], [0 K, J, 0 K], [0 K, 0 K, J]]) on A -> A + (-1)");
+    expect(message).toContain("its symmetric part would be counted twice and its antisymmetric (DM) part, if any, would enter with the opposite sign");
+  });
+});

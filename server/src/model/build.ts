@@ -950,7 +950,7 @@ class ModelBuilder {
 
   private buildExchanges(sign: 1 | -1): ExchangeTerm[] {
     const out: ExchangeTerm[] = [];
-    const seen = new Map<string, { span: Span; kind: ExchangeKind }>();
+    const seen = new Map<string, { span: Span; kind: ExchangeKind; reversed: boolean }>();
     const memo = this.memo;
     const lattice = this.lattice;
     const previousLattice = memo?.lattice ?? null;
@@ -1002,7 +1002,7 @@ class ModelBuilder {
   /** One exchange statement: its kind, matrix and bonds (null when it cannot be built). */
   private buildExchange(
     s: ExchangeStatement,
-    seen: Map<string, { span: Span; kind: ExchangeKind }>,
+    seen: Map<string, { span: Span; kind: ExchangeKind; reversed: boolean }>,
   ): { kind: ExchangeKind; written: { matrix: Mat3; scale: number }; bonds: Bond[]; requests: BondRequest[] | null } | null {
     const kindName = s.exchangeKind.name;
     if (!(EXCHANGE_KINDS as readonly string[]).includes(kindName)) {
@@ -1167,29 +1167,35 @@ class ModelBuilder {
    * The bonds of `requests`, each once: a bond already given (by this or an earlier statement of
    * the same kind) is reported as counted twice and left out.
    */
-  private placeBonds(kind: ExchangeKind, requests: readonly BondRequest[], lattice: Lattice, seen: Map<string, { span: Span; kind: ExchangeKind }>): Bond[] {
+  private placeBonds(kind: ExchangeKind, requests: readonly BondRequest[], lattice: Lattice, seen: Map<string, { span: Span; kind: ExchangeKind; reversed: boolean }>): Bond[] {
     const bonds: Bond[] = [];
     for (const r of requests) {
       const key = (r.key ??= `${kind}:${bondKey(r.from, r.to, r.offset)}`);
       const prev = seen.get(key);
       if (prev) {
         const where = describeBond(lattice, r.from, r.to, r.offset);
+        // Written from the other end, a term's antisymmetric part enters with the opposite sign
+        // (S_j . J . S_i = S_i . J^T . S_j, derivable): two dm terms then cancel, not add.
+        const flipped = (kind === "dm" || kind === "matrix") && writtenReversed(r) !== prev.reversed;
+        const consequence = !flipped
+          ? "it would be counted twice. Remove one of them."
+          : kind === "dm"
+            ? "written from its other end, its DM vector enters with the opposite sign (S_j.J.S_i = S_i.Jᵀ.S_j), so the two would cancel (wholly or in part) rather than add. Only the first is kept; remove one of them, or write both from the same end."
+            : "written from its other end, its symmetric part would be counted twice and its antisymmetric (DM) part, if any, would enter with the opposite sign (S_j.J.S_i = S_i.Jᵀ.S_j). Only the first is kept; remove one of them.";
         this.report(
-          diag("spw-bond-duplicate", r.span, `This ${kind} bond ${where} is already given; it would be counted twice. Remove one of them.`, {
+          diag("spw-bond-duplicate", r.span, `This ${kind} bond ${where} is already given; ${consequence}`, {
             related: [{ span: prev.span, message: "the bond given first" }],
             data: { bond: where },
           }),
         );
         continue;
       }
-      seen.set(key, { span: r.span, kind });
       if (!r.bond) {
         const c = canonicalBond(r.from, r.to, r.offset);
         const distance = Math.hypot(...bondVector(lattice.vectors, lattice.sites.map((x) => x.position), c.from, c.to, c.offset));
-        // Written from its other end: the canonical form swapped the sites (or, on one site, negated the offset).
-        const reversed = c.from !== r.from || c.to !== r.to || c.offset.some((n, k) => n !== (r.offset[k] ?? 0));
-        r.bond = { from: c.from, to: c.to, offset: c.offset, distance, span: r.span, shell: r.shell, reversed };
+        r.bond = { from: c.from, to: c.to, offset: c.offset, distance, span: r.span, shell: r.shell, reversed: writtenReversed(r) };
       }
+      seen.set(key, { span: r.span, kind, reversed: r.bond.reversed });
       bonds.push(r.bond);
     }
     return bonds;
@@ -1417,4 +1423,10 @@ export function closest(word: string, candidates: readonly string[]): string[] {
     .filter((x) => x.d <= 2)
     .sort((a, b) => a.d - b.d)
     .map((x) => x.c);
+}
+
+/** The request was written from its other end: the canonical form swaps the sites (or, on one site, negates the offset). */
+function writtenReversed(r: { readonly from: number; readonly to: number; readonly offset: readonly number[] }): boolean {
+  const c = canonicalBond(r.from, r.to, r.offset);
+  return c.from !== r.from || c.to !== r.to || c.offset.some((n, k) => n !== (r.offset[k] ?? 0));
 }
