@@ -56,7 +56,10 @@ try {
   for (let attempt = 0; attempt < 30; attempt++) {
     await page.mouse.move(5, 5);
     await page.waitForTimeout(300);
-    const box = await fieldWord.boundingBox();
+    // Monaco re-renders its view lines (new semantic tokens, a layout pass): the word can be
+    // briefly absent, and then the locator finds it again on the next attempt.
+    const box = await fieldWord.boundingBox().catch(() => null);
+    if (!box) continue;
     await page.mouse.move(box.x + 8, box.y + box.height / 2);
     try {
       await page.waitForFunction(() => [...document.querySelectorAll(".monaco-hover")].some((e) => /E_?Z = [0-9]/.test(e.innerText)), null, { timeout: 2000 });
