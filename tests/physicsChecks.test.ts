@@ -279,3 +279,23 @@ describe("the zero-momentum resonance", () => {
     expect(a.diagnostics.find((d) => d.code === "spw-resonance-unprotected")?.related?.length).toBe(1);
   });
 });
+
+describe("sentences about breaking terms", () => {
+  // The numbers are the model's own, in meV (the analysis's canonical unit), to four significant
+  // digits: xxz(J, delta) about z is diag(J, J, J delta), so its principal values are J delta, J, J
+  // (derivable); D in a single-ion term is the D of D (S.n)^2 as written.
+  it("name their numbers with the unit, without trailing zeros", () => {
+    const { p } = analyze(` let J = 1.5 meV\n exchange xxz(J, 0.6) on shell 1`);
+    expect(p.symmetry.breaking[0]?.consequence).toContain("about n = (0, 0, 1) (principal values 0.9, 1.5, 1.5 meV)");
+    const spin1 = analyze(` let J = 3.2 meV\n exchange heisenberg(J) on shell 1\n anisotropy Cu D = 0.8 meV axis (0, 0, 1)`, "spin 1\n convention antiferro-positive\n lattice chain sites Cu");
+    expect(spin1.p.symmetry.breaking[0]?.consequence).toContain("(D = 0.8 meV, n = (0, 0, 1))");
+  });
+
+  it("stand alone as the notes of the unprotected-resonance diagnostic, which gives its reason in one clause", () => {
+    const { a, p } = analyze(` let J = 1 meV\n exchange heisenberg(J) on shell 1\n exchange dm(0.05 * J, (0, 0, 1)) on shell 1\n g Cu = 2\n field 2 T along (0, 0, 1)`);
+    const d = a.diagnostics.find((x) => x.code === "spw-resonance-unprotected");
+    expect(d?.message.startsWith("The q = 0 resonance is not pinned at the Zeeman energy because H0 is not SU(2)-symmetric: it may shift")).toBe(true);
+    expect(d?.related?.map((r) => r.message)).toEqual(p.symmetry.breaking.map((b) => b.consequence));
+    expect(d?.related?.[0]?.message.startsWith("A DM vector breaks SU(2)")).toBe(true);
+  });
+});

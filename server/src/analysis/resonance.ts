@@ -6,7 +6,7 @@ import { diag, type Diagnostic } from "../base/diagnostics";
 import type { SpinModel } from "../model/model";
 import { MEV_PER_CM, MEV_PER_GHZ, MEV_PER_K, MU_B_MEV_PER_T } from "../model/units";
 import { dot3, mulMatVec3, norm3, normalize3, sub3, transpose3 } from "../physics/linalg3";
-import { larmorProtection, type FindingKind } from "../physics/symmetry";
+import { larmorProtection } from "../physics/symmetry";
 import type { Vec3 } from "../physics/types";
 import { kindText, siteFieldsMeV, type SymmetryResult } from "./symmetryCheck";
 import type { FamilyResult } from "./family";
@@ -30,26 +30,6 @@ export interface ResonanceSummary {
   /** Uniform DM parallel to the field on a chain: the line becomes a doublet (tan theta = D/J). */
   readonly dmDoublet: { readonly dMeV: number; readonly jMeV: number; readonly theta: number } | null;
   readonly breakingTerms: readonly string[];
-}
-
-/**
- * "<kind>: <consequence>" for a breaking term, made once per kind and consequence text: the
- * consequence sentences of unchanged terms are the very strings of the version before (kept with
- * the classifier's bond facts), so the related messages are too, and comparing a new diagnostic
- * with the last one stops at an identity check.
- */
-const relatedMessages = new Map<FindingKind, Map<string, string>>();
-
-function relatedMessage(kind: FindingKind, consequence: string): string {
-  let byText = relatedMessages.get(kind);
-  if (!byText) relatedMessages.set(kind, (byText = new Map()));
-  let message = byText.get(consequence);
-  if (message === undefined) {
-    // Bounded: sentences of earlier versions (old magnitudes) pile up while typing.
-    if (byText.size > 256) byText.clear();
-    byText.set(consequence, (message = `${kindText(kind)}: ${consequence}`));
-  }
-  return message;
 }
 
 export function analyzeResonance(model: SpinModel, sym: SymmetryResult, family: FamilyResult): { summary: ResonanceSummary; diagnostics: Diagnostic[] } {
@@ -101,8 +81,10 @@ export function analyzeResonance(model: SpinModel, sym: SymmetryResult, family: 
       ? ` With a uniform DM vector parallel to the field the line becomes a doublet (tan θ = D/J = ${fmt(dmDoublet.dMeV / Math.abs(dmDoublet.jMeV))}).`
       : "";
     diagnostics.push(
-      diag("spw-resonance-unprotected", model.field.span, `The q = 0 resonance is not pinned at the Zeeman energy: ${p.cause}${extra}`, {
-        related: sym.breaking.map((b) => ({ span: b.span, message: relatedMessage(b.kind, b.consequence) })),
+      // Each consequence sentence names its term ("A DM vector breaks SU(2): ..."), and it is the
+      // very string of the version before for an unchanged term (kept with the classifier's facts).
+      diag("spw-resonance-unprotected", model.field.span, `The q = 0 resonance is not pinned at the Zeeman energy because ${p.cause}${extra}`, {
+        related: sym.breaking.map((b) => ({ span: b.span, message: b.consequence })),
       }),
     );
   }

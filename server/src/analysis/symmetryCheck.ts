@@ -90,7 +90,7 @@ export function analyzeSymmetry(model: SpinModel): SymmetryResult {
     spans.set(id, sites[s]?.gSpan ?? model.field?.span ?? model.nameSpan);
     return { id, vector, site: s };
   });
-  const c = classifySymmetry({ bonds, singleIon, fields });
+  const c = classifySymmetry({ bonds, singleIon, fields, energyUnit: "meV" });
   const breaking: BreakingTerm[] = [];
   // Kinds already named at each place (span start), as bits of KIND_BIT.
   const named = new Map<number, number>();

@@ -463,6 +463,8 @@ describe("classifySymmetry keeps the facts of unchanged bond groups", () => {
           bonds: groups.map((m, k) => ({ id: `b${k}`, matrix: m, sites: [k, k + 1] as [number, number] })),
           singleIon: [],
           fields: [0, 1].map((s) => ({ id: `f${s}`, vector: field, site: s })),
+          // The sentences name the unit: kept facts must not carry another unit's sentences.
+          energyUnit: pick(["meV", "meV", "K"]),
         });
       }
       const kept = inputs.map((input) => structuredClone(classifySymmetry(input)));

@@ -374,6 +374,8 @@ export interface SymmetryInput {
   readonly scale?: number;
   /** Relative tolerance (default 1e-9): a part counts as zero when below scale * tolerance. */
   readonly relativeTolerance?: number;
+  /** The input's energy unit, named after the numbers in the sentences (e.g. "meV"); none by default. */
+  readonly energyUnit?: string;
 }
 
 export interface SymmetryClassification {
@@ -460,6 +462,8 @@ interface AnisotropicTerm {
 interface BondFacts {
   readonly entries: readonly number[];
   readonly tolerance: number;
+  /** The unit suffix its sentences were written with. */
+  readonly unit: string;
   readonly d: ExchangeDecomposition;
   /** The group breaks SU(2): its DM or anisotropic part exceeds the tolerance. */
   readonly breaks: boolean;
@@ -479,9 +483,9 @@ interface BondFacts {
  */
 let lastBondFacts: readonly BondFacts[] = [];
 
-function bondFacts(k: number, m: Mat3, tolerance: number): BondFacts {
+function bondFacts(k: number, m: Mat3, tolerance: number, unit: string): BondFacts {
   const last = lastBondFacts[k];
-  if (last && Object.is(last.tolerance, tolerance)) {
+  if (last && Object.is(last.tolerance, tolerance) && last.unit === unit) {
     const e = last.entries;
     const [r0, r1, r2] = m;
     if (
@@ -492,7 +496,7 @@ function bondFacts(k: number, m: Mat3, tolerance: number): BondFacts {
       return last;
   }
   const d = decomposeExchange(m);
-  return { entries: [...m[0], ...m[1], ...m[2]], tolerance, d, breaks: d.norms.dm > tolerance || d.norms.anisotropic > tolerance };
+  return { entries: [...m[0], ...m[1], ...m[2]], tolerance, unit, d, breaks: d.norms.dm > tolerance || d.norms.anisotropic > tolerance };
 }
 
 /** Forgets the kept bond facts (tests compare kept and fresh classifications). */
@@ -548,8 +552,13 @@ function isDiagonal(m: Mat3, tolerance: number): boolean {
   return Math.hypot(m[0][1], m[0][2], m[1][2], m[1][0], m[2][0], m[2][1]) <= tolerance;
 }
 
+/** Four significant digits without trailing zeros (0.8, not 0.8000). */
+function num(x: number): string {
+  return String(Number(x.toPrecision(4)));
+}
+
 function fmtAxis(n: Vec3): string {
-  return `(${n.map((c) => (Math.abs(c) < 5e-13 ? "0" : c.toPrecision(4))).join(", ")})`;
+  return `(${n.map((c) => (Math.abs(c) < 5e-13 ? "0" : num(c))).join(", ")})`;
 }
 
 function maxOf(values: readonly number[]): number {
@@ -565,6 +574,7 @@ function maxOf(values: readonly number[]): number {
  */
 export function classifySymmetry(input: SymmetryInput): SymmetryClassification {
   const relativeTolerance = input.relativeTolerance ?? 1e-9;
+  const unit = input.energyUnit ? ` ${input.energyUnit}` : "";
   const notes: SymmetryNote[] = [];
 
   // Sum bonds per unordered site pair where the caller gave pairs.
@@ -661,7 +671,7 @@ export function classifySymmetry(input: SymmetryInput): SymmetryClassification {
   const facts: BondFacts[] = [];
   for (let k = 0; k < bondGroups.length; k++) {
     const b = bondGroups[k] as (typeof bondGroups)[number];
-    const f = bondFacts(k, b.matrix, tolerance);
+    const f = bondFacts(k, b.matrix, tolerance, unit);
     facts.push(f);
     if (f.breaks) terms.push({ ids: b.ids, source: "bond", matrix: b.matrix, dm: f.d.dm, anisotropic: f.d.anisotropic, facts: f });
   }
@@ -759,7 +769,7 @@ export function classifySymmetry(input: SymmetryInput): SymmetryClassification {
       }
       const anisoNorm = normMat3(term.anisotropic);
       if (anisoNorm > tolerance) {
-        const own = (f.anisotropy ??= anisotropyAlone(term, tolerance));
+        const own = (f.anisotropy ??= anisotropyAlone(term, tolerance, unit));
         breaking.push({
           id,
           ids: term.ids,
@@ -784,8 +794,8 @@ export function classifySymmetry(input: SymmetryInput): SymmetryClassification {
         magnitude: normMat3(term.anisotropic),
         compatibleWithAxis: compatible(term.anisotropic),
         detail: rhombic
-          ? `A rhombic single-ion term (D = ${p.dAxial.toPrecision(4)}, E = ${p.eRhombic.toPrecision(4)}) leaves no continuous spin rotation: no spin component is conserved, so the q = 0 resonance shifts and splits even with the field along the main axis.`
-          : `A single-ion anisotropy D (S.n)^2 (D = ${p.dAxial.toPrecision(4)}, n = ${fmtAxis(p.axis ?? [0, 0, 1])}) on a spin S >= 1 breaks SU(2) down to U(1) about n: the q = 0 resonance is no longer pinned at the Zeeman energy and acquires a zero-field splitting that depends on the field direction.`,
+          ? `A rhombic single-ion term (D = ${num(p.dAxial)}${unit}, E = ${num(p.eRhombic)}${unit}) leaves no continuous spin rotation: no spin component is conserved, so the q = 0 resonance shifts and splits even with the field along the main axis.`
+          : `A single-ion anisotropy D (S.n)^2 (D = ${num(p.dAxial)}${unit}, n = ${fmtAxis(p.axis ?? [0, 0, 1])}) on a spin S >= 1 breaks SU(2) down to U(1) about n: the q = 0 resonance is no longer pinned at the Zeeman energy and acquires a zero-field splitting that depends on the field direction.`,
       });
     }
   }
@@ -820,7 +830,7 @@ export function classifySymmetry(input: SymmetryInput): SymmetryClassification {
         axis: null,
         magnitude: transverse,
         compatibleWithAxis: false,
-        detail: `The field has a component ${transverse.toPrecision(4)} transverse to the U(1) axis ${fmtAxis(axis)} of H0, so no spin component is conserved: the q = 0 resonance shifts and mixes with other modes, and the U(1) selection rules are lost.`,
+        detail: `The field has a component ${num(transverse)}${unit} transverse to the U(1) axis ${fmtAxis(axis)} of H0, so no spin component is conserved: the q = 0 resonance shifts and mixes with other modes, and the U(1) selection rules are lost.`,
       });
     });
   }
@@ -840,13 +850,13 @@ export function classifySymmetry(input: SymmetryInput): SymmetryClassification {
 }
 
 /** The symmetry a bond term's anisotropic part leaves alone, its kind and its sentence. */
-function anisotropyAlone(term: AnisotropicTerm, tolerance: number): { axis: Vec3 | null; kind: FindingKind; detail: string } {
+function anisotropyAlone(term: AnisotropicTerm, tolerance: number, unit: string): { axis: Vec3 | null; kind: FindingKind; detail: string } {
   const alone: AnisotropicTerm = { ...term, dm: [0, 0, 0], eig: termEig(term) }; // shares the eigen-decomposition
   const axis = singleTermAxis(term.anisotropic, alone, tolerance);
   const diagonal = isDiagonal(term.anisotropic, tolerance);
   const kind: FindingKind = axis || diagonal ? "exchange-anisotropy" : "off-diagonal-symmetric";
   const eig = symmetricEigen3(addMat3(term.anisotropic, scaleMat3(IDENTITY3, trace3(term.matrix) / 3)));
-  return { axis, kind, detail: exchangeAnisotropyDetail(kind, axis, eig.values) };
+  return { axis, kind, detail: exchangeAnisotropyDetail(kind, axis, eig.values, unit) };
 }
 
 /** `angleTolerance` = tolerance / |D|: the angle at which the DM term's own residual reaches it. */
@@ -861,8 +871,8 @@ function dmDetail(axis: Vec3, uniformField: Vec3 | null, angleTolerance: number)
     : `${base}; here D is not parallel to the field, so no spin component is conserved and the line can shift, split and broaden.`;
 }
 
-function exchangeAnisotropyDetail(kind: FindingKind, axis: Vec3 | null, principal: Vec3): string {
-  const values = principal.map((v) => v.toPrecision(4)).join(", ");
+function exchangeAnisotropyDetail(kind: FindingKind, axis: Vec3 | null, principal: Vec3, unit: string): string {
+  const values = `${principal.map(num).join(", ")}${unit}`;
   if (axis) {
     return `An XXZ-type exchange anisotropy about n = ${fmtAxis(axis)} (principal values ${values}) breaks SU(2) down to U(1) about n: the q = 0 resonance is no longer pinned at the Zeeman energy and can shift and broaden, although S.n stays conserved with the field along n.`;
   }
