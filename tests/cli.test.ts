@@ -51,6 +51,12 @@ describe("spinwright CLI", () => {
     expect(r.out).toContain("A = [[1, 0, 0], [0, 1, 0], [0, 0, 2]] meV\n");
   });
 
+  it("report names each breaking term by its line and its consequence sentence, once", () => {
+    const r = run("report", "samples/dm-chain.spw");
+    expect(r.out).toContain("\n  line 13: A DM vector breaks SU(2): the q = 0 resonance is no longer pinned at the Zeeman energy; here D is parallel to the field");
+    expect(r.out).not.toContain("breaks SU(2): a Dzyaloshinskii-Moriya term");
+  });
+
   it("report lists each bond as written, with a matrix term's isotropic part named as such", () => {
     const file = modelFile("reversed.spw", 'model "reversed" {\n  spin 1/2\n  convention antiferro-positive\n  lattice chain sites V\n  exchange heisenberg(1 meV) on V -> V + (1)\n  exchange dm(-0.1 meV, (0, 0, 1)) on V -> V + (-1)\n  exchange matrix([[0 meV, -0.1 meV, 0 meV], [0.1 meV, 0 meV, 0 meV], [0 meV, 0 meV, 0 meV]]) on V -> V + (1)\n}\n');
     const r = run("report", file);

@@ -5,7 +5,7 @@ import { formatNumber } from "../service/common";
 import { describeBond } from "../model/build";
 import { MEV_PER_GHZ, MEV_PER_K } from "../model/units";
 import { formatText } from "./format";
-import { describeClass, kindText } from "../analysis/symmetryCheck";
+import { describeClass } from "../analysis/symmetryCheck";
 import { MEV_PER_CM } from "../model/units";
 import { predictionLines } from "../service/predictionsView";
 import { boundaryText } from "../service/physicsView";
@@ -82,7 +82,8 @@ function physicsLines(a: DocumentAnalysis): string[] {
     return `line ${q.line + 1}`;
   };
   out.push(`symmetry (without the field): ${describeClass(p.symmetry.h0, p.symmetry.axis)}; with the field: ${describeClass(p.symmetry.full, p.symmetry.fullAxis)}`);
-  for (const b of p.symmetry.breaking) out.push(`  breaks SU(2): ${kindText(b.kind)} (${at(b.span)}): ${b.consequence}`);
+  // Each consequence sentence names its term and what it breaks (SU(2), or the symmetry H0 keeps).
+  for (const b of p.symmetry.breaking) out.push(`  ${at(b.span)}: ${b.consequence}`);
   if (p.couplings.length > 0)
     out.push(`couplings: ${p.couplings.map((c) => `${c.name} ${c.character}${c.character === "antisymmetric" ? ` (|D| = ${fmt(c.dmMeV)} meV)` : ` (${fmt(c.valueMeV)} meV)`}`).join(", ")}`);
   const frustrated = p.frustration.filter((f) => f.frustrated);
