@@ -171,3 +171,13 @@ describe("a bond given twice", () => {
     expect(message).toContain("its symmetric part would be counted twice and its antisymmetric (DM) part, if any, would enter with the opposite sign");
   });
 });
+
+describe("an unknown unit", () => {
+  const message = (value: string) =>
+    analyzeDocument(`model "m" {\n convention antiferro-positive\n lattice chain sites A\n let J = ${value}\n}`).diagnostics.find((d) => d.code === "spw-unit-unknown")?.message;
+  it("is named with the unit it resembles: letter case first, then spelling", () => {
+    expect(message("1 mev")).toBe("Unknown unit 'mev'; did you mean meV? Energies take meV, ueV, eV, joule, K, mK, MHz, GHz, THz, cm^-1; fields take T, mT, G.");
+    expect(message("1 Ghz")).toContain("did you mean GHz?");
+    expect(message("1 tesla")).toBe("Unknown unit 'tesla'. Energies take meV, ueV, eV, joule, K, mK, MHz, GHz, THz, cm^-1; fields take T, mT, G.");
+  });
+});

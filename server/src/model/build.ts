@@ -1,6 +1,7 @@
 // Builds the semantic model from the AST: resolves parameters (with cycle detection), evaluates
 // values with units, constructs the lattice, expands bonds, and reports every problem with a
 // stable code, a range and a suggested fix. Never throws. Model layer.
+import { closest } from "../base/words";
 import { diag, type Diagnostic } from "../base/diagnostics";
 import type { Span } from "../base/text";
 import {
@@ -1403,26 +1404,6 @@ export function fmt(x: number): string {
   if (x === 0) return "0";
   const s = Math.abs(x) >= 1e-3 && Math.abs(x) < 1e6 ? String(Number(x.toPrecision(6))) : x.toExponential(4);
   return s;
-}
-
-/** Candidates within edit distance 2, nearest first. */
-export function closest(word: string, candidates: readonly string[]): string[] {
-  const dist = (a: string, b: string): number => {
-    const dp = Array.from({ length: a.length + 1 }, (_, i) => [i, ...new Array<number>(b.length).fill(0)]);
-    for (let j = 1; j <= b.length; j++) (dp[0] as number[])[j] = j;
-    for (let i = 1; i <= a.length; i++)
-      for (let j = 1; j <= b.length; j++) {
-        const row = dp[i] as number[];
-        const prev = dp[i - 1] as number[];
-        row[j] = Math.min((prev[j] ?? 0) + 1, (row[j - 1] ?? 0) + 1, (prev[j - 1] ?? 0) + (a[i - 1] === b[j - 1] ? 0 : 1));
-      }
-    return (dp[a.length] as number[])[b.length] ?? 99;
-  };
-  return candidates
-    .map((c) => ({ c, d: dist(word.toLowerCase(), c.toLowerCase()) }))
-    .filter((x) => x.d <= 2)
-    .sort((a, b) => a.d - b.d)
-    .map((x) => x.c);
 }
 
 /** The request was written from its other end: the canonical form swaps the sites (or, on one site, negates the offset). */

@@ -2,6 +2,7 @@
 // numbers are in canonical units (meV for energy, T for field). Only numbers, units, parameter
 // names, the constants pi and muB, + - * / ^ and parentheses are allowed: calls are rejected.
 // Model layer.
+import { closest } from "../base/words";
 import { diag, type Diagnostic } from "../base/diagnostics";
 import type { Span } from "../base/text";
 import type { Expr } from "../syntax/ast";
@@ -83,7 +84,7 @@ function evalInner(e: Expr, ctx: EvalContext): Value | null {
           diag(
             "spw-unit-unknown",
             e.unit.span,
-            `Unknown unit '${key}'. Energies take ${ENERGY_UNIT_NAMES.join(", ")}; fields take ${FIELD_UNIT_NAMES.join(", ")}.`,
+            `Unknown unit '${key}'${unitGuess(key)} Energies take ${ENERGY_UNIT_NAMES.join(", ")}; fields take ${FIELD_UNIT_NAMES.join(", ")}.`,
             { data: { unit: key } },
           ),
         );
@@ -227,4 +228,11 @@ function conversionHint(a: Value, b: Value): string {
   if (dims.has("an energy") && dims.has("a magnetic field"))
     return " To turn a field B into an energy use g muB B (e.g. 2 * muB * 1 T); to turn an energy E into a field use E / (g muB).";
   return "";
+}
+
+/** "; did you mean meV?" for a unit spelled another way (letter case first, then spelling), else ".". */
+function unitGuess(key: string): string {
+  const names = [...ENERGY_UNIT_NAMES, ...FIELD_UNIT_NAMES];
+  const guess = names.find((u) => u.toLowerCase() === key.toLowerCase()) ?? closest(key, names)[0];
+  return guess ? `; did you mean ${guess}?` : ".";
 }

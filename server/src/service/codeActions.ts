@@ -5,7 +5,7 @@
 import type { DocumentAnalysis } from "../analysis/analyze";
 import type { Diagnostic } from "../base/diagnostics";
 import type { Span } from "../base/text";
-import { closest } from "../model/build";
+import { closest } from "../base/words";
 import { CONSTANTS, ENERGY_UNIT_NAMES, UNITS, unitInfo } from "../model/units";
 import { statementExprs, walkExpr, type Expr, type Statement } from "../syntax/ast";
 import { firstModel, type TextEdit } from "./common";

@@ -1,6 +1,7 @@
 // Lowers the chevrotain CST to the typed AST (ast.ts). Defensive throughout: nodes recovered
 // after syntax errors may lack children, and lowering then drops the piece instead of throwing.
 // Syntax layer.
+import { closest } from "../base/words";
 import type { CstElement, CstNode, IToken } from "chevrotain";
 import { diag, type Diagnostic } from "../base/diagnostics";
 import type { Span } from "../base/text";
@@ -439,7 +440,15 @@ export function lowerPiece(cst: CstNode, text: string): { statements: Statement[
   return { statements, diagnostics };
 }
 
-const STATEMENT_WORDS = "spin, convention, lattice, let, exchange, anisotropy, g, field, cluster, probe, expect";
+const STATEMENT_LIST = ["spin", "convention", "lattice", "let", "exchange", "anisotropy", "g", "field", "cluster", "probe", "expect"];
+const STATEMENT_WORDS = STATEMENT_LIST.join(", ");
+
+/** "did you mean 'field'? A statement" when the stray text starts with a misspelt statement keyword (three letters or more), else "a statement". */
+function keywordGuess(found: string): string {
+  const word = /^[A-Za-z_]\w*/.exec(found)?.[0];
+  const guess = word && word.length >= 3 ? closest(word, STATEMENT_LIST.filter((w) => w.length >= 3))[0] : undefined;
+  return guess && guess !== word ? `did you mean '${guess}'? A statement` : "a statement";
+}
 
 /** One diagnostic per run of stray tokens on a line, saying what a statement starts with. */
 function reportJunk(statements: Statement[], text: string, diagnostics: Diagnostic[]): void {
@@ -448,7 +457,7 @@ function reportJunk(statements: Statement[], text: string, diagnostics: Diagnost
     if (!run) return;
     const found = text.slice(run.start, run.end);
     diagnostics.push(
-      diag("spw-syntax", run, `Unexpected '${found}': a statement inside the model block starts with one of ${STATEMENT_WORDS}.`),
+      diag("spw-syntax", run, `Unexpected '${found}': ${keywordGuess(found)} inside the model block starts with one of ${STATEMENT_WORDS}.`),
     );
     run = null;
   };

@@ -123,3 +123,14 @@ describe("parseSpw", () => {
     expect(open.diagnostics.map((d) => d.message)).toEqual(["Expected '}' here, found 'let'. Close the lattice block with '}'."]);
   });
 });
+
+describe("a misspelt statement keyword", () => {
+  it("is named with the keyword it resembles; a stray word like no keyword is not", () => {
+    const message = (line: string) => parseSpw(`model "m" {\n  ${line}\n}\n`).diagnostics.find((d) => d.code === "spw-syntax")?.message;
+    expect(message("feld 3 T")).toBe(
+      "Unexpected 'feld 3 T': did you mean 'field'? A statement inside the model block starts with one of spin, convention, lattice, let, exchange, anisotropy, g, field, cluster, probe, expect.",
+    );
+    expect(message("exchnage heisenberg(J) on shell 1")).toContain(": did you mean 'exchange'? A statement");
+    expect(message("foo 3")).toBe("Unexpected 'foo 3': a statement inside the model block starts with one of spin, convention, lattice, let, exchange, anisotropy, g, field, cluster, probe, expect.");
+  });
+});
