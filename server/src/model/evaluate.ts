@@ -230,9 +230,8 @@ function conversionHint(a: Value, b: Value): string {
   return "";
 }
 
-/** "; did you mean meV?" for a unit spelled another way (letter case first, then spelling), else ".". */
+/** "; did you mean meV?" for a unit spelled another way (closest ignores letter case, so "mev" is at distance 0), else ".". */
 function unitGuess(key: string): string {
-  const names = [...ENERGY_UNIT_NAMES, ...FIELD_UNIT_NAMES];
-  const guess = names.find((u) => u.toLowerCase() === key.toLowerCase()) ?? closest(key, names)[0];
+  const guess = closest(key, [...ENERGY_UNIT_NAMES, ...FIELD_UNIT_NAMES])[0];
   return guess ? `; did you mean ${guess}?` : ".";
 }

@@ -448,9 +448,9 @@ interface AnisotropicTerm {
   readonly matrix: Mat3;
   readonly dm: Vec3;
   readonly anisotropic: Mat3;
-  /** symmetricEigen3(anisotropic), made when first asked for (candidate axes ask up to twice). */
+  /** symmetricEigen3(anisotropic) of a single-ion term, made when first asked for (see termEig). */
   eig?: SymmetricEigen3;
-  /** The facts of its bond group, for a bond term (they keep the eigen-decomposition too). */
+  /** The facts of its bond group, for a bond term (they keep its eigen-decomposition). */
   readonly facts?: BondFacts;
 }
 
@@ -532,12 +532,10 @@ function candidateAxes(term: AnisotropicTerm, tolerance: number): Vec3[] {
   return dedupeAxes(out);
 }
 
-/** symmetricEigen3 of a term's anisotropic part, made once (and kept with its bond facts). */
+/** symmetricEigen3 of a term's anisotropic part, made once: with its bond facts, or on the term. */
 function termEig(term: AnisotropicTerm): SymmetricEigen3 {
-  if (term.eig) return term.eig;
-  const eig = term.facts ? (term.facts.eig ??= symmetricEigen3(term.anisotropic)) : symmetricEigen3(term.anisotropic);
-  term.eig = eig;
-  return eig;
+  if (term.facts) return (term.facts.eig ??= symmetricEigen3(term.anisotropic));
+  return (term.eig ??= symmetricEigen3(term.anisotropic));
 }
 
 /** The symmetry left by one tensor alone: the first of its candidate axes that it commutes with. */
@@ -851,7 +849,7 @@ export function classifySymmetry(input: SymmetryInput): SymmetryClassification {
 
 /** The symmetry a bond term's anisotropic part leaves alone, its kind and its sentence. */
 function anisotropyAlone(term: AnisotropicTerm, tolerance: number, unit: string): { axis: Vec3 | null; kind: FindingKind; detail: string } {
-  const alone: AnisotropicTerm = { ...term, dm: [0, 0, 0], eig: termEig(term) }; // shares the eigen-decomposition
+  const alone: AnisotropicTerm = { ...term, dm: [0, 0, 0] }; // shares the facts, and so the eigen-decomposition
   const axis = singleTermAxis(term.anisotropic, alone, tolerance);
   const diagonal = isDiagonal(term.anisotropic, tolerance);
   const kind: FindingKind = axis || diagonal ? "exchange-anisotropy" : "off-diagonal-symmetric";

@@ -41,6 +41,9 @@ export const KEYWORDS = [
 
 export type Keyword = (typeof KEYWORDS)[number];
 
+/** The keywords a statement starts with, in the order messages list them. */
+export const STATEMENT_KEYWORDS: readonly Keyword[] = ["spin", "convention", "lattice", "let", "exchange", "anisotropy", "g", "field", "cluster", "probe", "expect"];
+
 export const Kw: Record<Keyword, TokenType> = Object.fromEntries(KEYWORDS.map((w) => [w, keyword(w)])) as Record<
   Keyword,
   TokenType

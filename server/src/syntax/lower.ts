@@ -6,6 +6,7 @@ import type { CstElement, CstNode, IToken } from "chevrotain";
 import { diag, type Diagnostic } from "../base/diagnostics";
 import type { Span } from "../base/text";
 import type { BondSpec, Expr, NameRef, Statement } from "./ast";
+import { STATEMENT_KEYWORDS } from "./lexer";
 
 type Children = Record<string, CstElement[] | undefined>;
 
@@ -440,13 +441,12 @@ export function lowerPiece(cst: CstNode, text: string): { statements: Statement[
   return { statements, diagnostics };
 }
 
-const STATEMENT_LIST = ["spin", "convention", "lattice", "let", "exchange", "anisotropy", "g", "field", "cluster", "probe", "expect"];
-const STATEMENT_WORDS = STATEMENT_LIST.join(", ");
+const STATEMENT_WORDS = STATEMENT_KEYWORDS.join(", ");
 
 /** "did you mean 'field'? A statement" when the stray text starts with a misspelt statement keyword (three letters or more), else "a statement". */
 function keywordGuess(found: string): string {
   const word = /^[A-Za-z_]\w*/.exec(found)?.[0];
-  const guess = word && word.length >= 3 ? closest(word, STATEMENT_LIST.filter((w) => w.length >= 3))[0] : undefined;
+  const guess = word && word.length >= 3 ? closest(word, STATEMENT_KEYWORDS.filter((w) => w.length >= 3))[0] : undefined;
   return guess && guess !== word ? `did you mean '${guess}'? A statement` : "a statement";
 }
 

@@ -21,24 +21,13 @@ import {
   RParen,
   Slash,
   Star,
+  STATEMENT_KEYWORDS,
   WhiteSpace,
   Comment,
 } from "./lexer";
 
 /** Tokens that start a statement inside a model block. */
-export const STATEMENT_STARTS: TokenType[] = [
-  Kw.spin,
-  Kw.convention,
-  Kw.lattice,
-  Kw.let,
-  Kw.exchange,
-  Kw.anisotropy,
-  Kw.g,
-  Kw.field,
-  Kw.cluster,
-  Kw.probe,
-  Kw.expect,
-];
+export const STATEMENT_STARTS: TokenType[] = STATEMENT_KEYWORDS.map((w) => Kw[w]);
 
 /**
  * Tokens that cannot start a statement: consumed one at a time as "junk" so recovery goes on. Inside
