@@ -119,6 +119,29 @@ describe("the expect claim", () => {
     expect(d?.severity).toBe("hint");
   });
 
+  it("messages follow the claim and the computed axis from one file to the next", () => {
+    // The texts of the last check are kept for the same claim and axes: a new axis or claim must
+    // give new texts. DM along n conserves S.n only (symmetry algebra, derivable).
+    const message = (body: string): string | undefined =>
+      analyze(body).a.diagnostics.find((d) => d.code.startsWith("spw-expect"))?.message;
+    expect(message(` exchange xxz(1 meV, 0.5) on shell 1\n expect u1 about (1, 0, 0)`)).toBe(
+      "The file expects U(1) about (1, 0, 0), but the conserved axis is (0, 0, 1). Write 'expect u1 about (0, 0, 1)'.",
+    );
+    const dmAlongY = ` exchange heisenberg(1 meV) on shell 1\n exchange dm(0.1 meV, (0, 1, 0)) on Cu -> Cu + (1)\n`;
+    expect(message(`${dmAlongY} expect u1 about (1, 0, 0)`)).toBe(
+      "The file expects U(1) about (1, 0, 0), but the conserved axis is (0, 1, 0). Write 'expect u1 about (0, 1, 0)'.",
+    );
+    expect(message(`${dmAlongY} expect u1 about (0, 0, 1)`)).toBe(
+      "The file expects U(1) about (0, 0, 1), but the conserved axis is (0, 1, 0). Write 'expect u1 about (0, 1, 0)'.",
+    );
+    expect(message(`${dmAlongY} expect none`)).toMatch(/^The Hamiltonian without the field has U\(1\) about \(0, 1, 0\), more than 'expect none' claims/);
+    expect(message(`${dmAlongY} expect su2`)).toMatch(/^The file expects SU\(2\), but without the field the Hamiltonian has U\(1\) about \(0, 1, 0\)\./);
+    expect(message(` exchange heisenberg(1 meV) on shell 1\n expect u1 about (0, 0, 1)`)).toMatch(/^The Hamiltonian without the field has SU\(2\), more than/);
+    expect(message(` exchange xyz(1 meV, 0.5 meV, 0.2 meV) on shell 1\n expect u1 about (0, 0, 1)`)).toMatch(
+      /^The file expects U\(1\) about \(0, 0, 1\), but without the field the Hamiltonian has no continuous spin-rotation symmetry\./,
+    );
+  });
+
   it("a correct claim gives no diagnostic", () => {
     const { a } = analyze(` exchange xxz(1 meV, 0.5) on shell 1\n expect u1 about (0, 0, -1)`);
     expect(a.diagnostics.filter((d) => d.code.startsWith("spw-expect"))).toEqual([]);

@@ -7,7 +7,7 @@ import { bondKeyOf } from "../model/lattice";
 import { bondMatrix, type SpinModel, type SymmetryClass } from "../model/model";
 import { MU_B_MEV_PER_T } from "../model/units";
 import { dot3, mulMatVec3, scale3, transpose3 } from "../physics/linalg3";
-import { classifySymmetry, type FindingKind, type SymmetryClassification } from "../physics/symmetry";
+import { classifySymmetry, type BondTensorInput, type FindingKind, type SymmetryClassification } from "../physics/symmetry";
 import type { Mat3, Vec3 } from "../physics/types";
 
 export interface BreakingTerm {
@@ -59,25 +59,64 @@ const KIND_BIT: Record<FindingKind, number> = {
   "transverse-field": 64,
 };
 
+const CARRIES_DM = 1;
+const CARRIES_ANISOTROPY = 2;
+/** Which breaking parts an exchange term carries itself, by term (a function of its parts). */
+const carried = new WeakMap<SpinModel["exchanges"][number], number>();
+
+function carries(term: SpinModel["exchanges"][number]): number {
+  let bits = carried.get(term);
+  if (bits === undefined) {
+    const d = term.parts;
+    const tol = 1e-12 * Math.max(1e-300, Math.abs(d.isotropic) + d.norms.dm + d.norms.anisotropic);
+    bits = (d.norms.dm > tol ? CARRIES_DM : 0) | (d.norms.anisotropic > tol ? CARRIES_ANISOTROPY : 0);
+    carried.set(term, bits);
+  }
+  return bits;
+}
+
+/**
+ * Site-pair numbers by bond key. Any injective numbering groups bonds the same way (the classifier
+ * sums bonds of one pair, in input order), so the numbers are handed out once and kept: a term's
+ * inputs then stay valid for as long as the term object lives. Numbers are never reused; when
+ * they run high, numbering starts afresh together with the inputs made from it.
+ */
+let pairNumbers = new Map<string, number>();
+type Exchange = SpinModel["exchanges"][number];
+/** The classifier inputs of an exchange term, one per bond (made once per term object). */
+let termInputs = new WeakMap<Exchange, readonly BondTensorInput[]>();
+
+function inputsOf(term: Exchange): readonly BondTensorInput[] {
+  let inputs = termInputs.get(term);
+  if (inputs) return inputs;
+  if (pairNumbers.size >= 1 << 24) {
+    pairNumbers = new Map();
+    termInputs = new WeakMap();
+  }
+  const id = exchangeId(term.index);
+  const made: BondTensorInput[] = [];
+  for (const b of term.bonds) {
+    const key = bondKeyOf(b);
+    let p = pairNumbers.get(key);
+    if (p === undefined) {
+      p = pairNumbers.size;
+      pairNumbers.set(key, p);
+    }
+    // Distinct bonds are distinct operators: give each its own pair of indices.
+    made.push({ id, matrix: bondMatrix(term, b), sites: [2 * p, 2 * p + 1] });
+  }
+  termInputs.set(term, made);
+  return made;
+}
+
 export function analyzeSymmetry(model: SpinModel): SymmetryResult {
   // Where each classifier id is written: exchange terms by index, the rest by id.
-  const termOf: (SpinModel["exchanges"][number] | undefined)[] = [];
+  const termOf: (Exchange | undefined)[] = [];
   const spans = new Map<string, Span>();
-  const pairs = new Map<string, number>();
-  const bonds: { id: string; matrix: Mat3; sites: [number, number] }[] = [];
+  const bonds: BondTensorInput[] = [];
   for (const term of model.exchanges) {
-    const id = exchangeId(term.index);
     termOf[term.index] = term;
-    for (const b of term.bonds) {
-      const key = bondKeyOf(b);
-      let p = pairs.get(key);
-      if (p === undefined) {
-        p = pairs.size;
-        pairs.set(key, p);
-      }
-      // Distinct bonds are distinct operators: give each its own pair of indices.
-      bonds.push({ id, matrix: bondMatrix(term, b), sites: [2 * p, 2 * p + 1] });
-    }
+    for (const input of inputsOf(term)) bonds.push(input);
   }
   const sites = model.lattice?.sites ?? [];
   const singleIon = model.singleIon.map((t, k) => {
@@ -102,9 +141,7 @@ export function analyzeSymmetry(model: SpinModel): SymmetryResult {
         const term = termOf[index];
         if (!term) continue;
         // Findings are per bond pair; name only the terms that carry the breaking part themselves.
-        const d = term.parts;
-        const tol = 1e-12 * Math.max(1e-300, Math.abs(d.isotropic) + d.norms.dm + d.norms.anisotropic);
-        if (!(f.kind === "dm" ? d.norms.dm > tol : d.norms.anisotropic > tol)) continue;
+        if (!(carries(term) & (f.kind === "dm" ? CARRIES_DM : CARRIES_ANISOTROPY))) continue;
         span = term.span;
       } else span = spans.get(id);
       if (!span) continue;
@@ -138,6 +175,39 @@ export function kindText(kind: FindingKind): string {
   return KIND_TEXT[kind];
 }
 
+function sameVec(a: Vec3 | null, b: Vec3 | null): boolean {
+  return a === b || (a !== null && b !== null && Object.is(a[0], b[0]) && Object.is(a[1], b[1]) && Object.is(a[2], b[2]));
+}
+
+interface ExpectTexts {
+  readonly claim: SymmetryClass;
+  readonly claimAxis: Vec3 | null;
+  readonly computed: SymmetryClass;
+  readonly axis: Vec3 | null;
+  readonly claimText: string;
+  readonly computedText: string;
+  readonly replacement: string;
+}
+
+/** The texts of the last `expect` check: a function of the claim, the computed class and both axes. */
+let lastExpectTexts: ExpectTexts | null = null;
+
+function expectTexts(claim: SymmetryClass, claimAxis: Vec3 | null, computed: SymmetryClass, axis: Vec3 | null): ExpectTexts {
+  const last = lastExpectTexts;
+  if (last && last.claim === claim && last.computed === computed && sameVec(last.claimAxis, claimAxis) && sameVec(last.axis, axis)) return last;
+  const texts: ExpectTexts = {
+    claim,
+    claimAxis,
+    computed,
+    axis,
+    claimText: describeClass(claim, claimAxis),
+    computedText: describeClass(computed, axis),
+    replacement: computed === "u1" ? `u1 about (${(axis ?? [0, 0, 1]).map((x) => Number(x.toFixed(6))).join(", ")})` : computed,
+  };
+  lastExpectTexts = texts;
+  return texts;
+}
+
 /** Checks `expect` against the symmetry of H0 (the Hamiltonian without the Zeeman term). */
 export function checkExpect(model: SpinModel, sym: SymmetryResult): Diagnostic[] {
   const e = model.expect;
@@ -147,11 +217,10 @@ export function checkExpect(model: SpinModel, sym: SymmetryResult): Diagnostic[]
   const wrongAxis = e.claim === "u1" && computed === "u1" && e.axis && sym.axis && Math.abs(Math.abs(dot3(e.axis, sym.axis)) - 1) > 1e-6;
   // A claim that holds (most edits) needs none of the texts below.
   if (rank[e.claim] === rank[computed] && !wrongAxis) return [];
-  const computedText = describeClass(computed, sym.axis);
+  const { computedText, replacement, claimText } = expectTexts(e.claim, e.axis, computed, sym.axis);
   const related: RelatedInfo[] = sym.breaking
     .filter((b) => b.kind !== "non-uniform-field" && b.kind !== "transverse-field")
     .map((b) => ({ span: b.span, message: `${kindText(b.kind)} breaks SU(2) here` }));
-  const replacement = computed === "u1" ? `u1 about (${(sym.axis ?? [0, 0, 1]).map((x) => Number(x.toFixed(6))).join(", ")})` : computed;
   // Offsets would change with every edit above the statement: the fix's extent is a length (from
   // the claim to the end of the statement), so unchanged diagnostics read the same.
   const data = { replacement, replaceLength: e.span.end - e.claimSpan.start };
@@ -160,14 +229,14 @@ export function checkExpect(model: SpinModel, sym: SymmetryResult): Diagnostic[]
       diag(
         "spw-expect-mismatch",
         e.claimSpan,
-        `The file expects ${describeClass(e.claim, e.axis)}, but without the field the Hamiltonian has ${computedText}. Remove the breaking terms or write 'expect ${replacement}'.`,
+        `The file expects ${claimText}, but without the field the Hamiltonian has ${computedText}. Remove the breaking terms or write 'expect ${replacement}'.`,
         { related, data },
       ),
     ];
   }
   if (wrongAxis && e.axis) {
     return [
-      diag("spw-expect-mismatch", e.claimSpan, `The file expects U(1) about (${e.axis.map((x) => Number(x.toFixed(4))).join(", ")}), but the conserved axis is ${computedText.slice("U(1) about ".length)}. Write 'expect ${replacement}'.`, {
+      diag("spw-expect-mismatch", e.claimSpan, `The file expects ${claimText}, but the conserved axis is ${computedText.slice("U(1) about ".length)}. Write 'expect ${replacement}'.`, {
         related,
         data,
       }),

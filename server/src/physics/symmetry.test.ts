@@ -443,9 +443,12 @@ describe("classifySymmetry keeps the facts of unchanged bond groups", () => {
     for (let chain = 0; chain < 40; chain++) {
       const groups: Mat3[] = Array.from({ length: 2 + (chain % 5) }, () => pick(kinds)());
       let field: Vec3 = [0, 0, 1];
+      // The ids name the terms in the findings: a renamed group must not keep the old names.
+      let prefix = "b";
       const inputs: SymmetryInput[] = [];
       for (let step = 0; step < 25; step++) {
-        const what = pick(["same", "one", "entry", "entry", "largest", "add", "drop", "field", "tiny"] as const);
+        const what = pick(["same", "one", "entry", "entry", "largest", "add", "drop", "field", "tiny", "rename"] as const);
+        if (what === "rename") prefix = prefix === "b" ? "c" : "b";
         if (what === "entry") {
           // One entry of one group changes (a DM component typed, say); the other eight stay.
           const k = Math.floor((r() + 0.5) * groups.length) % groups.length;
@@ -460,7 +463,7 @@ describe("classifySymmetry keeps the facts of unchanged bond groups", () => {
         else if (what === "field") field = pick<Vec3>([[0, 0, 1], [1, 0, 0], normalize3([1, 1, 0])!, [0, 0, 0]]);
         else if (what === "tiny") groups[groups.length - 1] = uniaxialMatrix3(Z, 0, 0, 2e-9);
         inputs.push({
-          bonds: groups.map((m, k) => ({ id: `b${k}`, matrix: m, sites: [k, k + 1] as [number, number] })),
+          bonds: groups.map((m, k) => ({ id: `${prefix}${k}`, matrix: m, sites: [k, k + 1] as [number, number] })),
           singleIon: [],
           fields: [0, 1].map((s) => ({ id: `f${s}`, vector: field, site: s })),
           // The sentences name the unit: kept facts must not carry another unit's sentences.
@@ -473,5 +476,29 @@ describe("classifySymmetry keeps the facts of unchanged bond groups", () => {
         expect(kept[k], `chain ${chain}, step ${k}`).toStrictEqual(structuredClone(classifySymmetry(input)));
       });
     }
+  });
+
+  it("keeps a group's residual per axis: a kept group is tested again about a new axis", () => {
+    // Two DM groups along n1 = (3, 0, 4)/5, so H0 conserves S.n1. Then the stronger one turns to
+    // n2 = (3, 0, -4)/5 (the same x and y, the opposite z): the kept weaker group commutes with n1
+    // but not with n2, so H0 keeps no axis (derivable: a DM term commutes only with S along D).
+    // Both axes are exact in binary up to rounding of 3/5 and 4/5, the same for both.
+    const input = (strongZ: number): SymmetryInput => ({
+      bonds: [
+        { id: "strong", matrix: crossMatrix3([0.6, 0, strongZ * 0.8]), sites: [0, 1] },
+        { id: "weak", matrix: scaleMat3(crossMatrix3([0.6, 0, 0.8]), 0.5), sites: [2, 3] },
+      ],
+      singleIon: [],
+      fields: [],
+      // A fixed scale, so that the tolerance (and with it the weak group's facts) stays the same.
+      scale: 3,
+    });
+    forgetSymmetryFacts();
+    expect(classifySymmetry(input(1)).h0).toBe("u1");
+    const kept = classifySymmetry(input(-1));
+    forgetSymmetryFacts();
+    const fresh = classifySymmetry(input(-1));
+    expect(fresh.h0).toBe("none");
+    expect(kept).toStrictEqual(fresh);
   });
 });

@@ -472,6 +472,10 @@ interface BondFacts {
   candidates?: readonly Vec3[];
   dm?: { readonly axis: Vec3; readonly matrix: Mat3 };
   anisotropy?: { readonly axis: Vec3 | null; readonly kind: FindingKind; readonly detail: string };
+  /** rotationResidual of the group matrix about axes asked for: x, y, z, residual per axis. */
+  residuals?: number[];
+  /** The group's last findings, with the ids, axis of H0 and uniform field direction they were made for. */
+  findings?: { readonly ids: readonly string[]; readonly h0Axis: Vec3 | null; readonly uniformFieldDirection: Vec3 | null; readonly list: readonly SymmetryFinding[] };
 }
 
 /**
@@ -499,9 +503,13 @@ function bondFacts(k: number, m: Mat3, tolerance: number, unit: string): BondFac
   return { entries: [...m[0], ...m[1], ...m[2]], tolerance, unit, d, breaks: d.norms.dm > tolerance || d.norms.anisotropic > tolerance };
 }
 
+/** The H0 candidate axes of the last classification whose strongest terms were all bond terms, by their facts. */
+let lastCandidates: { readonly facts: readonly BondFacts[]; readonly axes: readonly Vec3[] } | null = null;
+
 /** Forgets the kept bond facts (tests compare kept and fresh classifications). */
 export function forgetSymmetryFacts(): void {
   lastBondFacts = [];
+  lastCandidates = null;
 }
 
 function dedupeAxes(axes: readonly Vec3[]): Vec3[] {
@@ -559,28 +567,64 @@ function fmtAxis(n: Vec3): string {
   return `(${n.map((c) => (Math.abs(c) < 5e-13 ? "0" : num(c))).join(", ")})`;
 }
 
-function maxOf(values: readonly number[]): number {
-  return values.reduce((a, b) => Math.max(a, b), 0);
-}
-
 /**
  * Classifies H0 and the full H. H0: SU(2) when every exchange matrix is a multiple of 1 and every
  * single-ion tensor (S >= 1) is a multiple of 1; U(1) about n when every term commutes with S.n
  * (see `rotationResidual`); none otherwise. Full H: [S.n, h_i . S_i] = i (n x h_i) . S_i
  * (derivable from [S^a, S^b] = i eps_abc S^c), so the Zeeman term conserves S.n iff every h_i is
  * parallel to n; with SU(2) H0 any common field direction serves as n.
+ *
+ * The steps are small functions of their own: each is compiled and optimised on its own, and the
+ * bond terms' results that depend only on their group's facts and on the axes (residuals,
+ * findings) are kept with those facts (see BondFacts).
  */
 export function classifySymmetry(input: SymmetryInput): SymmetryClassification {
   const relativeTolerance = input.relativeTolerance ?? 1e-9;
   const unit = input.energyUnit ? ` ${input.energyUnit}` : "";
   const notes: SymmetryNote[] = [];
+  const bondGroups = groupBonds(input.bonds);
+  const ionGroups = groupSingleIon(input.singleIon, relativeTolerance, notes);
+  const fieldGroups = groupFields(input.fields);
+  const scale = input.scale ?? Math.max(maxNormMat3(bondGroups), maxNormMat3(ionGroups), maxNormVec3(fieldGroups));
+  const tolerance = relativeTolerance * scale;
+  const terms = anisotropicTerms(bondGroups, ionGroups, tolerance, unit);
+  const { h0, h0Axis } = classifyH0(terms, tolerance);
+  const fields = classifyFields(fieldGroups, h0, h0Axis, tolerance);
+  const breaking: SymmetryFinding[] = [];
+  for (const term of terms) {
+    if (term.source === "bond") bondFindings(term, h0Axis, fields.uniformFieldDirection, tolerance, unit, breaking);
+    else breaking.push(singleIonFinding(term, h0Axis, tolerance, unit));
+  }
+  fieldFindings(fieldGroups, fields, h0, h0Axis, tolerance, unit, breaking);
+  return {
+    h0,
+    h0Axis,
+    full: fields.full,
+    fullAxis: fields.fullAxis,
+    fieldsUniform: fields.fieldsUniform,
+    fieldsParallelToAxis: fields.fieldsParallelToAxis,
+    hasField: fields.hasField,
+    breaking,
+    notes,
+    tolerance,
+  };
+}
 
-  // Sum bonds per unordered site pair where the caller gave pairs.
-  // A group's matrix is the caller's own until a second bond joins; then a sum of its own, which
-  // later bonds are added to in place (the same additions, in the same order, as addMat3).
-  const bondGroups: { ids: string[]; matrix: Mat3; owned: boolean }[] = [];
+interface BondGroup {
+  readonly ids: string[];
+  matrix: Mat3;
+  owned: boolean;
+}
+
+/**
+ * Sums bonds per unordered site pair where the caller gave pairs. A group's matrix is the
+ * caller's own until a second bond joins; then a sum of its own, which later bonds are added to in
+ * place (the same additions, in the same order, as addMat3).
+ */
+function groupBonds(bonds: readonly BondTensorInput[]): BondGroup[] {
+  const bondGroups: BondGroup[] = [];
   const pairIndex = new Map<number, number>();
-  for (const bond of input.bonds) {
+  for (const bond of bonds) {
     if (!bond.sites) {
       bondGroups.push({ ids: [bond.id], matrix: bond.matrix, owned: false });
       continue;
@@ -609,12 +653,17 @@ export function classifySymmetry(input: SymmetryInput): SymmetryClassification {
       bondGroups.push({ ids: [bond.id], matrix: oriented, owned: false });
     }
   }
+  return bondGroups;
+}
 
-  // Single-ion terms: S = 1/2 terms are constants (S^a S^b + S^b S^a = delta_ab / 2 for S = 1/2,
-  // derivable from the Pauli algebra), so their symmetric part drops out; the caller warns.
+/**
+ * Single-ion terms summed per site. S = 1/2 terms are constants (S^a S^b + S^b S^a = delta_ab / 2
+ * for S = 1/2, derivable from the Pauli algebra), so their symmetric part drops out; the caller warns.
+ */
+function groupSingleIon(ions: readonly SingleIonTensorInput[], relativeTolerance: number, notes: SymmetryNote[]): { ids: string[]; matrix: Mat3 }[] {
   const ionGroups: { ids: string[]; matrix: Mat3 }[] = [];
   const siteIndex = new Map<number, number>();
-  for (const ion of input.singleIon) {
+  for (const ion of ions) {
     const sym = symmetricPart3(ion.matrix);
     if (normMat3(subMat3(ion.matrix, sym)) > relativeTolerance * Math.max(normMat3(ion.matrix), Number.MIN_VALUE)) {
       notes.push({
@@ -639,11 +688,14 @@ export function classifySymmetry(input: SymmetryInput): SymmetryClassification {
       ionGroups.push({ ids: [ion.id], matrix: sym });
     }
   }
+  return ionGroups;
+}
 
-  // Fields per site.
+/** Fields summed per site. */
+function groupFields(fields: readonly FieldInput[]): { ids: string[]; vector: Vec3 }[] {
   const fieldGroups: { ids: string[]; vector: Vec3 }[] = [];
   const fieldSite = new Map<number, number>();
-  for (const f of input.fields) {
+  for (const f of fields) {
     const at = f.site === undefined ? undefined : fieldSite.get(f.site);
     const group = at === undefined ? undefined : fieldGroups[at];
     if (group) {
@@ -654,21 +706,27 @@ export function classifySymmetry(input: SymmetryInput): SymmetryClassification {
       fieldGroups.push({ ids: [f.id], vector: f.vector });
     }
   }
+  return fieldGroups;
+}
 
-  const scale =
-    input.scale ??
-    Math.max(
-      maxOf(bondGroups.map((b) => normMat3(b.matrix))),
-      maxOf(ionGroups.map((s) => normMat3(s.matrix))),
-      maxOf(fieldGroups.map((f) => norm3(f.vector))),
-    );
-  const tolerance = relativeTolerance * scale;
+function maxNormMat3(groups: readonly { readonly matrix: Mat3 }[]): number {
+  let max = 0;
+  for (const g of groups) max = Math.max(max, normMat3(g.matrix));
+  return max;
+}
 
-  // Terms that break SU(2).
+function maxNormVec3(groups: readonly { readonly vector: Vec3 }[]): number {
+  let max = 0;
+  for (const g of groups) max = Math.max(max, norm3(g.vector));
+  return max;
+}
+
+/** The terms that break SU(2): bond groups (with their facts, kept for the next call) and single-ion groups. */
+function anisotropicTerms(bondGroups: readonly BondGroup[], ionGroups: readonly { ids: string[]; matrix: Mat3 }[], tolerance: number, unit: string): AnisotropicTerm[] {
   const terms: AnisotropicTerm[] = [];
   const facts: BondFacts[] = [];
   for (let k = 0; k < bondGroups.length; k++) {
-    const b = bondGroups[k] as (typeof bondGroups)[number];
+    const b = bondGroups[k] as BondGroup;
     const f = bondFacts(k, b.matrix, tolerance, unit);
     facts.push(f);
     if (f.breaks) terms.push({ ids: b.ids, source: "bond", matrix: b.matrix, dm: f.d.dm, anisotropic: f.d.anisotropic, facts: f });
@@ -680,27 +738,61 @@ export function classifySymmetry(input: SymmetryInput): SymmetryClassification {
       terms.push({ ids: s.ids, source: "single-ion", matrix: s.matrix, dm: [0, 0, 0], anisotropic: t });
     }
   }
+  return terms;
+}
 
-  // H0 class. Candidates come from the strongest few terms (best conditioned axes); since any
-  // common axis is a candidate of every term, one term would suffice in exact arithmetic.
-  let h0: SymmetryClass = "su2";
-  let h0Axis: Vec3 | null = null;
-  if (terms.length > 0) {
-    h0 = "none";
-    // A bond term's norms are its group's (the same functions of the same numbers).
-    const strength = (t: AnisotropicTerm): number => (t.facts ? Math.max(t.facts.d.norms.dm, t.facts.d.norms.anisotropic) : Math.max(norm3(t.dm), normMat3(t.anisotropic)));
-    const strongest = [...terms].sort((a, b) => strength(b) - strength(a)).slice(0, 3);
-    const candidates = dedupeAxes(strongest.flatMap((t) => (t.facts ? (t.facts.candidates ??= candidateAxes(t, tolerance)) : candidateAxes(t, tolerance))));
-    for (const n of candidates) {
-      if (terms.every((t) => rotationResidual(t.matrix, n) <= tolerance)) {
-        h0 = "u1";
-        h0Axis = n;
-        break;
-      }
-    }
+/** Whether a term commutes with S.n: rotationResidual of its matrix, kept with a bond term's facts. */
+function commutesWith(t: AnisotropicTerm, n: Vec3, tolerance: number): boolean {
+  const f = t.facts;
+  if (!f) return rotationResidual(t.matrix, n) <= tolerance;
+  // The facts' entries are the group matrix's, bit for bit: the residual is a function of them and n.
+  const kept = (f.residuals ??= []);
+  for (let k = 0; k < kept.length; k += 4) {
+    if (Object.is(kept[k], n[0]) && Object.is(kept[k + 1], n[1]) && Object.is(kept[k + 2], n[2])) return (kept[k + 3] as number) <= tolerance;
   }
+  const r = rotationResidual(t.matrix, n);
+  if (kept.length >= 32) kept.length = 0;
+  kept.push(n[0], n[1], n[2], r);
+  return r <= tolerance;
+}
 
-  // Fields.
+/**
+ * H0 class. Candidates come from the strongest few terms (best conditioned axes); since any common
+ * axis is a candidate of every term, one term would suffice in exact arithmetic.
+ */
+function classifyH0(terms: readonly AnisotropicTerm[], tolerance: number): { h0: SymmetryClass; h0Axis: Vec3 | null } {
+  if (terms.length === 0) return { h0: "su2", h0Axis: null };
+  // A bond term's norms are its group's (the same functions of the same numbers).
+  const strength = (t: AnisotropicTerm): number => (t.facts ? Math.max(t.facts.d.norms.dm, t.facts.d.norms.anisotropic) : Math.max(norm3(t.dm), normMat3(t.anisotropic)));
+  const strongest = [...terms].sort((a, b) => strength(b) - strength(a)).slice(0, 3);
+  // The candidates of the strongest bond terms are their facts' own: the same three facts (in
+  // the same order) give the same deduplicated list as last time.
+  const facts = strongest.map((t) => t.facts ?? null);
+  const kept = lastCandidates;
+  let candidates: readonly Vec3[];
+  if (kept && !facts.includes(null) && kept.facts.length === facts.length && kept.facts.every((f, k) => f === facts[k])) candidates = kept.axes;
+  else {
+    candidates = dedupeAxes(strongest.flatMap((t) => (t.facts ? (t.facts.candidates ??= candidateAxes(t, tolerance)) : candidateAxes(t, tolerance))));
+    lastCandidates = facts.includes(null) ? null : { facts: facts as BondFacts[], axes: candidates };
+  }
+  for (const n of candidates) {
+    if (terms.every((t) => commutesWith(t, n, tolerance))) return { h0: "u1", h0Axis: n };
+  }
+  return { h0: "none", h0Axis: null };
+}
+
+interface FieldClass {
+  readonly hasField: boolean;
+  readonly meanField: Vec3;
+  readonly fieldsUniform: boolean;
+  readonly uniformFieldDirection: Vec3 | null;
+  readonly full: SymmetryClass;
+  readonly fullAxis: Vec3 | null;
+  readonly fieldsParallelToAxis: boolean;
+}
+
+/** The full H: the fields' uniformity and direction against the symmetry H0 leaves. */
+function classifyFields(fieldGroups: readonly { vector: Vec3 }[], h0: SymmetryClass, h0Axis: Vec3 | null, tolerance: number): FieldClass {
   const vectors = fieldGroups.map((f) => f.vector);
   const nonZero = vectors.filter((v) => norm3(v) > tolerance);
   const hasField = nonZero.length > 0;
@@ -737,89 +829,124 @@ export function classifySymmetry(input: SymmetryInput): SymmetryClassification {
     full = "none";
     fullAxis = null;
   }
-
   const uniformFieldDirection = hasField && fieldsUniform && commonDirection ? commonDirection : null;
-  const breaking: SymmetryFinding[] = [];
-  const compatible = (m: Mat3): boolean | null => (h0Axis ? rotationResidual(m, h0Axis) <= tolerance : null);
+  return { hasField, meanField, fieldsUniform, uniformFieldDirection, full, fullAxis, fieldsParallelToAxis };
+}
 
-  for (const term of terms) {
-    const id = term.ids[0] ?? "";
-    if (term.source === "bond") {
-      const f = term.facts as BondFacts;
-      const dmNorm = norm3(term.dm);
-      if (dmNorm > tolerance) {
-        const dm = (f.dm ??= {
-          matrix: scaleMat3(crossMatrix3(term.dm), -1), // antisymmetric part = -[D]_x
-          axis: canonicalAxis(normalize3(term.dm) ?? [0, 0, 1]),
-        });
-        const dmMatrix = dm.matrix;
-        const axis = dm.axis;
-        breaking.push({
-          id,
-          ids: term.ids,
-          kind: "dm",
-          residual: "u1",
-          axis,
-          magnitude: dmNorm,
-          compatibleWithAxis: compatible(dmMatrix),
-          detail: dmDetail(axis, uniformFieldDirection, tolerance / Math.max(dmNorm, Number.MIN_VALUE)),
-        });
-      }
-      const anisoNorm = normMat3(term.anisotropic);
-      if (anisoNorm > tolerance) {
-        const own = (f.anisotropy ??= anisotropyAlone(term, tolerance, unit));
-        breaking.push({
-          id,
-          ids: term.ids,
-          kind: own.kind,
-          residual: own.axis ? "u1" : "none",
-          axis: own.axis,
-          magnitude: anisoNorm,
-          compatibleWithAxis: compatible(term.anisotropic),
-          detail: own.detail,
-        });
-      }
-    } else {
-      const p = principalAnisotropy(term.anisotropic);
-      const rhombic = Math.abs(p.eRhombic) > tolerance;
-      const axis = rhombic ? null : p.axis;
-      breaking.push({
-        id,
-        ids: term.ids,
-        kind: rhombic ? "single-ion-rhombic" : "single-ion",
-        residual: rhombic ? "none" : "u1",
-        axis,
-        magnitude: normMat3(term.anisotropic),
-        compatibleWithAxis: compatible(term.anisotropic),
-        detail: rhombic
-          ? `A rhombic single-ion term (D = ${num(p.dAxial)}${unit}, E = ${num(p.eRhombic)}${unit}) leaves no continuous spin rotation: no spin component is conserved, so the q = 0 resonance shifts and splits even with the field along the main axis.`
-          : `A single-ion anisotropy D (S.n)^2 (D = ${num(p.dAxial)}${unit}, n = ${fmtAxis(p.axis ?? [0, 0, 1])}) on a spin S >= 1 breaks SU(2) down to U(1) about n: the q = 0 resonance is no longer pinned at the Zeeman energy and acquires a zero-field splitting that depends on the field direction.`,
-      });
-    }
+function sameAxis(a: Vec3 | null, b: Vec3 | null): boolean {
+  if (a === b) return true;
+  return a !== null && b !== null && Object.is(a[0], b[0]) && Object.is(a[1], b[1]) && Object.is(a[2], b[2]);
+}
+
+function sameIds(a: readonly string[], b: readonly string[]): boolean {
+  if (a === b) return true;
+  if (a.length !== b.length) return false;
+  for (let k = 0; k < a.length; k++) if (a[k] !== b[k]) return false;
+  return true;
+}
+
+/**
+ * A bond term's findings (its DM part, its anisotropic part). They are functions of its facts
+ * (entries, tolerance, unit), its ids, the axis of H0 and the uniform field's direction, so the
+ * facts keep the last ones and hand them out again when those read the same.
+ */
+function bondFindings(term: AnisotropicTerm, h0Axis: Vec3 | null, uniformFieldDirection: Vec3 | null, tolerance: number, unit: string, out: SymmetryFinding[]): void {
+  const f = term.facts as BondFacts;
+  const last = f.findings;
+  if (last && sameIds(last.ids, term.ids) && sameAxis(last.h0Axis, h0Axis) && sameAxis(last.uniformFieldDirection, uniformFieldDirection)) {
+    for (const x of last.list) out.push(x);
+    return;
   }
+  const list: SymmetryFinding[] = [];
+  const id = term.ids[0] ?? "";
+  const compatible = (m: Mat3): boolean | null => (h0Axis ? rotationResidual(m, h0Axis) <= tolerance : null);
+  const dmNorm = norm3(term.dm);
+  if (dmNorm > tolerance) {
+    const dm = (f.dm ??= {
+      matrix: scaleMat3(crossMatrix3(term.dm), -1), // antisymmetric part = -[D]_x
+      axis: canonicalAxis(normalize3(term.dm) ?? [0, 0, 1]),
+    });
+    list.push({
+      id,
+      ids: term.ids,
+      kind: "dm",
+      residual: "u1",
+      axis: dm.axis,
+      magnitude: dmNorm,
+      compatibleWithAxis: compatible(dm.matrix),
+      detail: dmDetail(dm.axis, uniformFieldDirection, tolerance / Math.max(dmNorm, Number.MIN_VALUE)),
+    });
+  }
+  const anisoNorm = normMat3(term.anisotropic);
+  if (anisoNorm > tolerance) {
+    const own = (f.anisotropy ??= anisotropyAlone(term, tolerance, unit));
+    list.push({
+      id,
+      ids: term.ids,
+      kind: own.kind,
+      residual: own.axis ? "u1" : "none",
+      axis: own.axis,
+      magnitude: anisoNorm,
+      compatibleWithAxis: compatible(term.anisotropic),
+      detail: own.detail,
+    });
+  }
+  f.findings = { ids: term.ids, h0Axis, uniformFieldDirection, list };
+  for (const x of list) out.push(x);
+}
 
-  if (hasField && !fieldsUniform) {
-    fieldGroups.forEach((f) => {
-      const deviation = norm3(sub3(f.vector, meanField));
-      if (deviation <= tolerance) return;
+function singleIonFinding(term: AnisotropicTerm, h0Axis: Vec3 | null, tolerance: number, unit: string): SymmetryFinding {
+  const id = term.ids[0] ?? "";
+  const p = principalAnisotropy(term.anisotropic);
+  const rhombic = Math.abs(p.eRhombic) > tolerance;
+  const axis = rhombic ? null : p.axis;
+  return {
+    id,
+    ids: term.ids,
+    kind: rhombic ? "single-ion-rhombic" : "single-ion",
+    residual: rhombic ? "none" : "u1",
+    axis,
+    magnitude: normMat3(term.anisotropic),
+    compatibleWithAxis: h0Axis ? rotationResidual(term.anisotropic, h0Axis) <= tolerance : null,
+    detail: rhombic
+      ? `A rhombic single-ion term (D = ${num(p.dAxial)}${unit}, E = ${num(p.eRhombic)}${unit}) leaves no continuous spin rotation: no spin component is conserved, so the q = 0 resonance shifts and splits even with the field along the main axis.`
+      : `A single-ion anisotropy D (S.n)^2 (D = ${num(p.dAxial)}${unit}, n = ${fmtAxis(p.axis ?? [0, 0, 1])}) on a spin S >= 1 breaks SU(2) down to U(1) about n: the q = 0 resonance is no longer pinned at the Zeeman energy and acquires a zero-field splitting that depends on the field direction.`,
+  };
+}
+
+/** Site-dependent fields, and fields transverse to the axis of H0. */
+function fieldFindings(
+  fieldGroups: readonly { ids: string[]; vector: Vec3 }[],
+  fields: FieldClass,
+  h0: SymmetryClass,
+  h0Axis: Vec3 | null,
+  tolerance: number,
+  unit: string,
+  breaking: SymmetryFinding[],
+): void {
+  if (!fields.hasField) return;
+  if (!fields.fieldsUniform) {
+    for (const f of fieldGroups) {
+      const deviation = norm3(sub3(f.vector, fields.meanField));
+      if (deviation <= tolerance) continue;
       breaking.push({
         id: f.ids[0] ?? "",
         ids: f.ids,
         kind: "non-uniform-field",
-        residual: full === "none" ? "none" : "u1",
-        axis: fullAxis,
+        residual: fields.full === "none" ? "none" : "u1",
+        axis: fields.fullAxis,
         magnitude: deviation,
         compatibleWithAxis: h0Axis ? norm3(cross3(f.vector, h0Axis)) <= tolerance : null,
         detail:
           "Site-dependent effective fields (site-dependent g-tensors, or a staggered field from DM) defeat the Larmor theorem even for an SU(2) H0: the q = 0 resonance is no longer pinned at the Zeeman energy, and a staggered field can open a gap in a chain.",
       });
-    });
+    }
   }
-  if (hasField && h0 === "u1" && h0Axis) {
+  if (h0 === "u1" && h0Axis) {
     const axis = h0Axis;
-    fieldGroups.forEach((f) => {
+    for (const f of fieldGroups) {
       const transverse = norm3(cross3(f.vector, axis));
-      if (transverse <= tolerance) return;
+      if (transverse <= tolerance) continue;
       breaking.push({
         id: f.ids[0] ?? "",
         ids: f.ids,
@@ -830,21 +957,8 @@ export function classifySymmetry(input: SymmetryInput): SymmetryClassification {
         compatibleWithAxis: false,
         detail: `The field has a component ${num(transverse)}${unit} transverse to the U(1) axis ${fmtAxis(axis)} of H0, so no spin component is conserved: the q = 0 resonance shifts and mixes with other modes, and the U(1) selection rules are lost.`,
       });
-    });
+    }
   }
-
-  return {
-    h0,
-    h0Axis,
-    full,
-    fullAxis,
-    fieldsUniform,
-    fieldsParallelToAxis,
-    hasField,
-    breaking,
-    notes,
-    tolerance,
-  };
 }
 
 /** The symmetry a bond term's anisotropic part leaves alone, its kind and its sentence. */
@@ -853,8 +967,11 @@ function anisotropyAlone(term: AnisotropicTerm, tolerance: number, unit: string)
   const axis = singleTermAxis(term.anisotropic, alone, tolerance);
   const diagonal = isDiagonal(term.anisotropic, tolerance);
   const kind: FindingKind = axis || diagonal ? "exchange-anisotropy" : "off-diagonal-symmetric";
-  const eig = symmetricEigen3(addMat3(term.anisotropic, scaleMat3(IDENTITY3, trace3(term.matrix) / 3)));
-  return { axis, kind, detail: exchangeAnisotropyDetail(kind, axis, eig.values, unit) };
+  // The principal values of the symmetric part J 1 + T are J plus the eigenvalues of T (the same
+  // eigenvectors): the decomposition made for the candidate axes serves.
+  const iso = trace3(term.matrix) / 3;
+  const [t0, t1, t2] = termEig(alone).values;
+  return { axis, kind, detail: exchangeAnisotropyDetail(kind, axis, [t0 + iso, t1 + iso, t2 + iso], unit) };
 }
 
 /** `angleTolerance` = tolerance / |D|: the angle at which the DM term's own residual reaches it. */
