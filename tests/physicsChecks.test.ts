@@ -246,6 +246,31 @@ describe("conventions and frustration", () => {
   });
 });
 
+describe("coupling summaries", () => {
+  it("report the parts of each coupling, with rounding as zero", () => {
+    // heisenberg(J) is J times the identity: 3.2 meV leaves a traceless part of about 1e-15 meV
+    // in floating point. xxz(J, delta) = diag(J, J, J delta) has the traceless part
+    // J (1 - delta)/3 diag(1, 1, -2), of norm |J (1 - delta)| sqrt(6)/3 (derivable).
+    const { p } = analyze(` exchange heisenberg(3.2 meV) on shell 1\n exchange xxz(1 meV, 0.5) on shell 2`);
+    const [h, x] = p.couplings;
+    expect([h?.dmMeV, h?.anisotropicMeV]).toEqual([0, 0]);
+    expect(x?.dmMeV).toBe(0);
+    expect(x?.anisotropicMeV).toBeCloseTo((0.5 * Math.sqrt(6)) / 3, 12);
+  });
+
+  it("follow the tolerance when another coupling changes the scale", () => {
+    // The xxz term's traceless part is about 8e-12 meV: above 1e-12 of a 1 meV scale, rounding
+    // at a 100 meV scale. Its term is handed over unchanged when only J changes.
+    const text = (j: string): string => `model "m" {\n spin 1/2\n lattice chain sites Cu\n let J = ${j}\n exchange heisenberg(J) on shell 1\n exchange xxz(0.01 meV, 1.000000001) on shell 2\n}\n`;
+    let a = analyzeDocument(text("1 meV"));
+    expect(a.physics?.couplings[1]?.anisotropicMeV).toBeGreaterThan(0);
+    a = analyzeDocument(text("100 meV"), { previous: a });
+    expect(a.physics?.couplings[1]?.anisotropicMeV).toBe(0);
+    a = analyzeDocument(text("1 meV"), { previous: a });
+    expect(a.physics?.couplings[1]?.anisotropicMeV).toBeGreaterThan(0);
+  });
+});
+
 describe("stability regions", () => {
   const place = (ratio: number) => analyze(` let J1 = 1 meV\n exchange heisenberg(J1) on shell 1\n exchange heisenberg(${ratio} * J1) on shell 2`).p.family.placement;
   it("J1-J2 chain below and above J2c = 0.2411 J1 (Okamoto & Nomura, Phys. Lett. A 169, 433 (1992))", () => {

@@ -16,9 +16,9 @@ export interface CouplingSummary {
   /** The coupling's scale as written in the file (before the convention), meV. */
   readonly writtenMeV: number;
   readonly character: CouplingCharacter;
-  /** |D| of the antisymmetric part, meV. */
+  /** |D| of the antisymmetric part, meV (0 below 1e-12 of the largest coupling: rounding). */
   readonly dmMeV: number;
-  /** Norm of the symmetric traceless part, meV. */
+  /** Norm of the symmetric traceless part, meV (0 below 1e-12 of the largest coupling: rounding). */
   readonly anisotropicMeV: number;
   readonly bondsPerCell: number;
   readonly shells: readonly number[];
@@ -30,8 +30,8 @@ export function termLabel(term: ExchangeTerm): string {
 
 /**
  * The last summaries by term, with the lattice they were made on: a term object the build handed
- * over from the version before reads the same, so its summary is the same while the lattice and
- * its character (the one thing a new scale can change) are.
+ * over from the version before reads the same, so its summary is the same while the lattice, its
+ * character and which of its parts count as rounding (the things a new scale can change) are.
  */
 let lastSummaries: { readonly lattice: object | null; readonly byTerm: Map<ExchangeTerm, CouplingSummary> } = { lattice: null, byTerm: new Map() };
 
@@ -48,7 +48,8 @@ export function summarizeCouplings(model: SpinModel): CouplingSummary[] {
     const character: CouplingCharacter =
       Math.abs(d.isotropic) > tol ? (d.isotropic > 0 ? "antiferro" : "ferro") : d.norms.dm > tol ? "antisymmetric" : "zero";
     const kept = before?.get(t);
-    if (kept && kept.character === character) {
+    // What a new scale can change: the character, and which parts count as rounding.
+    if (kept && kept.character === character && d.norms.dm > tol === (kept.dmMeV !== 0) && d.norms.anisotropic > tol === (kept.anisotropicMeV !== 0)) {
       byTerm.set(t, kept);
       return kept;
     }
@@ -65,8 +66,10 @@ export function summarizeCouplings(model: SpinModel): CouplingSummary[] {
       valueMeV: d.isotropic,
       writtenMeV: t.scaleMeV,
       character,
-      dmMeV: d.norms.dm,
-      anisotropicMeV: d.norms.anisotropic,
+      // Parts below the tolerance are rounding (3.2 meV times 1 leaves a traceless part of about
+      // 1e-15 meV): reported as zero, as the character treats them.
+      dmMeV: d.norms.dm > tol ? d.norms.dm : 0,
+      anisotropicMeV: d.norms.anisotropic > tol ? d.norms.anisotropic : 0,
       bondsPerCell: t.bonds.length,
       shells,
     };
