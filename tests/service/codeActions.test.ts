@@ -52,6 +52,15 @@ describe("code actions", () => {
     expect(codes(fixed)).not.toContain("spw-single-ion-constant");
   });
 
+  it("removes an exchange term that is zero, with its line", () => {
+    const text = `model "m" {\n  spin 1/2\n  convention antiferro-positive\n  lattice chain sites Cu\n  exchange heisenberg(1 meV) on shell 1\n  exchange dm(0 meV, (0, 0, 1)) on shell 1\n}\n`;
+    const fixed = applyPreferred(text, "spw-term-zero");
+    expect(fixed).toBe(text.replace("  exchange dm(0 meV, (0, 0, 1)) on shell 1\n", ""));
+    expect(codes(fixed)).toEqual([]);
+    // Zero in floating point only when every entry is: a tiny coupling is a coupling.
+    expect(codes(text.replace("dm(0 meV", "dm(1e-9 meV"))).not.toContain("spw-term-zero");
+  });
+
   it("removes a duplicate bond from a bond list", () => {
     const fixed = applyPreferred(CHAIN, "spw-bond-duplicate");
     expect(fixed).toBe(CHAIN.replace("on Cu -> Cu + (2), shell 2", "on Cu -> Cu + (2)"));

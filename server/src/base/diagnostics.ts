@@ -54,6 +54,7 @@ export const DIAGNOSTIC_CODES = {
   "spw-shell-empty": ["error", "A neighbour shell the lattice does not have within the search range."],
   "spw-kind-unknown": ["error", "An exchange kind other than heisenberg, xxz, xyz, dm, matrix."],
   "spw-kind-arguments": ["error", "An exchange kind with the wrong number or kind of arguments."],
+  "spw-term-zero": ["hint", "An exchange term whose matrix is zero (no effect)."],
   "spw-single-ion-constant": ["warning", "A single-ion term on spin 1/2, which is a constant (no effect)."],
   "spw-anisotropy-invalid": ["error", "A single-ion term that is not well formed."],
   "spw-g-asymmetric": ["warning", "A g-tensor that is not symmetric."],

@@ -1023,6 +1023,13 @@ class ModelBuilder {
     const requests = this.bondRequests(s);
     const bonds = this.lattice && requests ? this.placeBonds(kind, requests, this.lattice, seen) : [];
     if (!written) return null;
+    if (written.matrix.every((row) => row.every((x) => x === 0))) {
+      this.report(
+        diag("spw-term-zero", s.span, `This ${kind} term is zero (every entry of its exchange matrix is 0): it adds nothing to the Hamiltonian. Give it a value, or remove it.`, {
+          tags: ["unnecessary"],
+        }),
+      );
+    }
     return { kind, written, bonds, requests };
   }
 

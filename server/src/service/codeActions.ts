@@ -67,6 +67,10 @@ function fixesFor(a: DocumentAnalysis, d: Diagnostic): CodeAction[] {
       const s = statementCovering(a, d.span);
       return s ? [action(d, "Remove the single-ion term (a constant for spin 1/2)", [removeStatement(a, s)], true)] : [];
     }
+    case "spw-term-zero": {
+      const s = statementCovering(a, d.span);
+      return s ? [action(d, "Remove the zero exchange term", [removeStatement(a, s)], true)] : [];
+    }
     case "spw-bond-duplicate": {
       const edit = removeDuplicateBond(a, d.span);
       return edit ? [action(d, "Remove the duplicate bond", [edit], true)] : [];
