@@ -165,7 +165,18 @@ describe("hover on the field and the symmetry claim: predictions and computed sy
     const md = hoverAt(HEISENBERG.replace("fie$0ld", "field").replace("expect su2", "exchange dm(0.05 * J, (0, 0, 1)) on Cu -> Cu + (1)\n  exp$0ect su2"));
     expect(md).toMatch(/\*\*expect\*\* su2/);
     expect(md).toMatch(/Computed: without the field U\(1\) about \(0, 0, 1\)/);
-    expect(md).toMatch(/SU\(2\) broken by: .*Dzyaloshinskii-Moriya/);
+    expect(md).toMatch(/SU\(2\) broken in H0 by: a Dzyaloshinskii-Moriya term\./);
+  });
+
+  it("the expect hover tells terms of H0 from the field, and names each kind once", () => {
+    // Two DM terms break SU(2) down to U(1) about z; a field along x breaks that U(1) but not the
+    // SU(2) of H0, which has none left to break (symmetry algebra, derivable).
+    const md = hoverAt(
+      HEISENBERG.replace("fie$0ld", "field")
+        .replace("along (0, 0, 1)", "along (1, 0, 0)")
+        .replace("expect su2", "exchange dm(0.05 * J, (0, 0, 1)) on Cu -> Cu + (1)\n  exchange dm(0.02 * J, (0, 0, 1)) on Cu -> Cu + (2)\n  exp$0ect su2"),
+    );
+    expect(md).toMatch(/with the field no continuous spin-rotation symmetry\. SU\(2\) broken in H0 by: a Dzyaloshinskii-Moriya term\. Broken further by the field: a field transverse to the symmetry axis\.$/);
   });
 
   it("the model hover names the nearest phase boundary and how far the couplings are from it", () => {

@@ -14,7 +14,7 @@ import { Identifier, isKeyword } from "../syntax/lexer";
 import { energyText, firstModel, formatNumber, spanContains, statementAt, symbolAt, tokenAt, tokenSpan } from "./common";
 import { physicsItems } from "./physicsView";
 import { markdownList, predictionLines } from "./predictionsView";
-import { describeClass, kindText } from "../analysis/symmetryCheck";
+import { describeClass, kindText, type BreakingTerm } from "../analysis/symmetryCheck";
 import { energyConversions, parameterValueText, zeemanLines, zeemanText } from "./quantities";
 import { CLAUSE_WORDS, CONVENTIONS, KIND_SIGNATURES, STATEMENT_WORDS, SYMMETRY_CLAIMS, unitDescription } from "./vocabulary";
 
@@ -176,6 +176,19 @@ function fieldHover(a: DocumentAnalysis, model: SpinModel): string | null {
   return text;
 }
 
+/**
+ * What breaks the symmetry, each kind once: terms of H0 break its SU(2); field findings (a field
+ * transverse to the axis H0 keeps, site-dependent fields) break only what H0 leaves.
+ */
+function brokenBy(breaking: readonly BreakingTerm[]): string {
+  const inH0 = new Set<string>();
+  const byField = new Set<string>();
+  for (const b of breaking) (b.kind === "transverse-field" || b.kind === "non-uniform-field" ? byField : inH0).add(kindText(b.kind));
+  const h0 = inH0.size ? ` SU(2) broken in H0 by: ${[...inH0].join("; ")}.` : "";
+  const field = byField.size ? ` Broken further by the field: ${[...byField].join("; ")}.` : "";
+  return h0 + field;
+}
+
 /** The Zeeman energy of every site in the file's field, and the sweep's end if there is one. */
 function fieldHoverText(a: DocumentAnalysis, model: SpinModel): string | null {
   const field = model.field;
@@ -281,7 +294,7 @@ function statementHover(a: DocumentAnalysis, s: Statement, offset: number, span:
     case "expect": {
       const doc = SYMMETRY_CLAIMS[s.claim.name];
       const sym = a.physics?.symmetry;
-      const computed = sym ? `\n\nComputed: without the field ${describeClass(sym.h0, sym.axis)}; with the field ${describeClass(sym.full, sym.fullAxis)}.${sym.breaking.length ? ` SU(2) broken by: ${sym.breaking.map((b) => kindText(b.kind)).join("; ")}.` : ""}` : "";
+      const computed = sym ? `\n\nComputed: without the field ${describeClass(sym.h0, sym.axis)}; with the field ${describeClass(sym.full, sym.fullAxis)}.${brokenBy(sym.breaking)}` : "";
       if (doc && spanContains(s.claim.span, offset)) return { span: s.claim.span, markdown: `**${s.claim.name}**: ${doc}${computed}` };
       // On the keyword or the axis: the claim as written and what the analysis found.
       return sym ? { span: s.span, markdown: `**expect** ${s.claim.name}: the symmetry the author relies on, checked against the model.${computed}` } : null;
