@@ -156,6 +156,23 @@ describe("hover on the field and the symmetry claim: predictions and computed sy
     expect(md).toMatch(/run the exact check/);
   });
 
+  it("the field hover links to each term that breaks the protection, by line", () => {
+    // CHAIN: the DM term (line 11) breaks SU(2); the spin-1/2 anisotropy is a constant and does not.
+    const text = CHAIN.replace("$0", "");
+    const a = analyzeMarked(CHAIN.replace("fie", "fi$0e")).a;
+    const at = a.text.indexOf("field ") + 2;
+    expect(doHover(a, at, "file:///w/chain.spw")?.markdown).toMatch(/\nBroken by:\n\n- \[line 11\]\(file:\/\/\/w\/chain\.spw#L11\): a Dzyaloshinskii-Moriya term\n/);
+    expect(doHover(a, at)?.markdown).toMatch(/\n- line 11: a Dzyaloshinskii-Moriya term\n/);
+    expect(text.split("\n")[10]).toMatch(/^ {2}exchange dm/);
+    // Protected: nothing to list.
+    expect(hoverAt(HEISENBERG)).not.toMatch(/Broken by/);
+    // Eight DM terms: the first six, then a count.
+    const many = Array.from({ length: 8 }, (_, k) => `  exchange dm(0.01 * J, (0, 0, 1)) on Cu -> Cu + (${k + 1})`).join("\n");
+    const md = hoverAt(HEISENBERG.replace("  g Cu = 2", `${many}\n  g Cu = 2`));
+    expect(md.match(/^- line \d+: a Dzyaloshinskii-Moriya term$/gm)?.length).toBe(6);
+    expect(md).toMatch(/^- and 2 more \(each is a related location of the resonance diagnostic\)$/m);
+  });
+
   it("the expect hover gives the computed symmetry and the breaking terms", () => {
     const md = hoverAt(HEISENBERG.replace("fie$0ld", "field").replace("expect su2", "exchange dm(0.05 * J, (0, 0, 1)) on Cu -> Cu + (1)\n  expect s$0u2"));
     expect(md).toMatch(/Computed: without the field U\(1\) about \(0, 0, 1\)/);
@@ -212,6 +229,8 @@ describe("hover after edits", () => {
     ["a stronger field", (t) => t.replace(/field ([0-9.]+)/, (_m, v: string) => `field ${Number(v) + 1.5}`)],
     ["another g-tensor", (t) => t.replace(/(\n\s*g [A-Za-z0-9_]+ = )([0-9.]+)/, (_m, p: string, v: string) => `${p}${Number(v) + 0.1}`)],
     ["a comment again", (t) => t.replace(/\n\}\s*$/, "\n  # another note\n}\n")],
+    // Every offset stays, every line below moves: the lines the hover links to must follow.
+    ["a line end in place of a space above every term", (t) => t.replace("\n  spin", "\n \nspin")],
   ];
   it.each([
     ["the J1-J2 chain with a DM term", CHAIN.replace("$0", "")],

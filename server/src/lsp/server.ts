@@ -294,7 +294,7 @@ export function startServer(connection: Connection, runtime: ServerRuntime = {})
     guard("hover", null, (p) => {
       const x = analysisOf(p.textDocument.uri);
       if (!x) return null;
-      const h = service.doHover(x.a, offsetOf(x.a, p.position));
+      const h = service.doHover(x.a, offsetOf(x.a, p.position), p.textDocument.uri);
       return h ? { contents: { kind: "markdown" as const, value: h.markdown }, range: toRange(x.a, h.span) } : null;
     }),
   );

@@ -26,7 +26,11 @@ export interface HoverResult {
 
 const CODATA_NOTE = "_Conversions: CODATA 2018 (Tiesinga et al., Rev. Mod. Phys. 2021)._";
 
-export function doHover(a: DocumentAnalysis, offset: number): HoverResult | null {
+/**
+ * The hover at `offset`. With the document's `uri`, places in the file (the terms that break the
+ * Larmor protection) are Markdown links to their lines (`uri#L12`, which VS Code opens there).
+ */
+export function doHover(a: DocumentAnalysis, offset: number, uri?: string): HoverResult | null {
   const token = tokenAt(a, offset);
   if (!token) return null;
   const span = tokenSpan(token);
@@ -39,7 +43,7 @@ export function doHover(a: DocumentAnalysis, offset: number): HoverResult | null
   if (symbol && model) {
     if (symbol.kind === "parameter") {
       const text = parameterHover(a, model, symbol.name);
-      const field = statement?.kind === "field" && spanContains(statement.magnitude.span, offset) ? fieldHover(a, model) : null;
+      const field = statement?.kind === "field" && spanContains(statement.magnitude.span, offset) ? fieldHover(a, model, uri) : null;
       return text ? { span: symbol.span, markdown: field ? `${text}\n\n---\n\n${field}` : text } : null;
     }
     if (symbol.kind === "site") return { span: symbol.span, markdown: siteHover(model, symbol.name) };
@@ -52,7 +56,7 @@ export function doHover(a: DocumentAnalysis, offset: number): HoverResult | null
   }
 
   if (statement) {
-    const specific = statementHover(a, statement, offset, span);
+    const specific = statementHover(a, statement, offset, span, uri);
     if (specific) return specific;
   }
 
@@ -140,28 +144,45 @@ function siteHover(model: SpinModel, name: string): string {
  * Field hovers by physics summary. The analysis hands over the summary of the version before only
  * when the model reads the same to the physics (analysis/physics.ts: every model field but the
  * parameters, symbols and spans), and the field hover reads nothing else: the field, the sites'
- * names and g-tensors, and the summary. So one summary means one text, and typing elsewhere in a
- * file does not build the text again. (A test holds hovers after edits to fresh analyses.)
+ * names and g-tensors, the summary, and the lines of the breaking terms (kept with the text). So
+ * one summary means one text, and typing elsewhere in a file does not build the text again. (A
+ * test holds hovers after edits to fresh analyses.)
  */
-const fieldHovers = new WeakMap<object, string | null>();
+const fieldHovers = new WeakMap<object, { readonly places: string; readonly text: string | null }>();
 
 /**
  * The last field hover with what it read: a new summary (a coupling typed into) often leaves all
  * of it the same. The field and lattice objects are handed over by the build while their
  * statements and values read the same (model/build.ts); the resonance sentence is compared as
- * text; predictions count only when they apply, and then as the very same object.
+ * text; predictions count only when they apply, and then as the very same object. `places` holds
+ * the document and the lines of the breaking terms the text links to: lines can move while the
+ * spans stay (a character before them turned into a line end), so they are part of every key.
  */
 let lastFieldHover: {
   readonly field: object;
   readonly lattice: object | null;
   readonly reason: string | null;
   readonly predictions: object | null;
+  readonly places: string;
   readonly text: string | null;
 } | null = null;
 
-function fieldHover(a: DocumentAnalysis, model: SpinModel): string | null {
+/** How many breaking terms the field hover lists before it only counts the rest. */
+const FIELD_HOVER_PLACES = 6;
+
+/** The lines of the terms that break the Larmor protection, each with its kind (empty when protected). */
+function breakingPlaces(a: DocumentAnalysis): { line: number; kind: string }[] {
   const physics = a.physics;
-  if (physics && fieldHovers.has(physics)) return fieldHovers.get(physics) ?? null;
+  if (!physics || !physics.resonance.hasField || physics.resonance.protected) return [];
+  return physics.symmetry.breaking.map((b) => ({ line: a.lines.positionAt(b.span.start).line + 1, kind: kindText(b.kind) }));
+}
+
+function fieldHover(a: DocumentAnalysis, model: SpinModel, uri: string | undefined): string | null {
+  const physics = a.physics;
+  const places = breakingPlaces(a);
+  const placesKey = `${uri ?? ""}\n${places.map((p) => `${p.line} ${p.kind}`).join("\n")}`;
+  const kept = physics ? fieldHovers.get(physics) : undefined;
+  if (kept && kept.places === placesKey) return kept.text;
   const field = model.field;
   if (!field) return null;
   const resonance = physics?.resonance;
@@ -170,9 +191,11 @@ function fieldHover(a: DocumentAnalysis, model: SpinModel): string | null {
   const lattice = model.lattice ?? null;
   const last = lastFieldHover;
   const text =
-    last && last.field === field && last.lattice === lattice && last.reason === reason && last.predictions === predictions ? last.text : fieldHoverText(a, model);
-  lastFieldHover = { field, lattice, reason, predictions, text };
-  if (physics) fieldHovers.set(physics, text);
+    last && last.field === field && last.lattice === lattice && last.reason === reason && last.predictions === predictions && last.places === placesKey
+      ? last.text
+      : fieldHoverText(a, model, places, uri);
+  lastFieldHover = { field, lattice, reason, predictions, places: placesKey, text };
+  if (physics) fieldHovers.set(physics, { places: placesKey, text });
   return text;
 }
 
@@ -190,7 +213,7 @@ function brokenBy(breaking: readonly BreakingTerm[]): string {
 }
 
 /** The Zeeman energy of every site in the file's field, and the sweep's end if there is one. */
-function fieldHoverText(a: DocumentAnalysis, model: SpinModel): string | null {
+function fieldHoverText(a: DocumentAnalysis, model: SpinModel, places: readonly { line: number; kind: string }[], uri: string | undefined): string | null {
   const field = model.field;
   if (!field) return null;
   const out = [
@@ -207,6 +230,13 @@ function fieldHoverText(a: DocumentAnalysis, model: SpinModel): string | null {
   const resonance = a.physics?.resonance;
   // The reason is a whole sentence that names the q = 0 resonance itself.
   if (resonance?.hasField && resonance.reason) out.push(resonance.reason);
+  if (places.length) {
+    const at = (line: number): string => (uri ? `[line ${line}](${uri}#L${line})` : `line ${line}`);
+    // A hover is a glance: the first few places, and how many more (the diagnostic lists all).
+    const shown = places.slice(0, FIELD_HOVER_PLACES).map((p) => `${at(p.line)}: ${p.kind}`);
+    if (places.length > FIELD_HOVER_PLACES) shown.push(`and ${places.length - FIELD_HOVER_PLACES} more (each is a related location of the resonance diagnostic)`);
+    out.push(`Broken by:\n\n${markdownList(shown)}`);
+  }
   const predictions = a.physics?.predictions;
   if (predictions?.applicable) out.push(`**Predicted near q = 0**\n\n${markdownList(predictionLines(predictions, { sweep: false }))}`);
   out.push("_μB and conversions: CODATA 2018 (Tiesinga et al., Rev. Mod. Phys. 2021)._");
@@ -238,7 +268,7 @@ function numberAt(statement: Statement, offset: number): Extract<Expr, { kind: "
   return best;
 }
 
-function statementHover(a: DocumentAnalysis, s: Statement, offset: number, span: Span): HoverResult | null {
+function statementHover(a: DocumentAnalysis, s: Statement, offset: number, span: Span, uri: string | undefined): HoverResult | null {
   const model = a.model;
   const n = numberAt(s, offset);
   // A literal beyond the double range (1e400) reads as Infinity: say so instead of converting it.
@@ -256,7 +286,7 @@ function statementHover(a: DocumentAnalysis, s: Statement, offset: number, span:
   switch (s.kind) {
     case "field": {
       if (!model?.field) return null;
-      const md = fieldHover(a, model);
+      const md = fieldHover(a, model, uri);
       return md ? { span, markdown: md } : null;
     }
     case "exchange": {
