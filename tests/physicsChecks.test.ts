@@ -215,6 +215,11 @@ describe("conventions and frustration", () => {
     expect(split("-0.2 meV")[0]?.frustrated).toBe(true);
   });
 
+  it("names a bond several terms sum on in parentheses, so that '-' only separates bonds", () => {
+    const { p } = analyze(` let J1 = 1 meV\n let J2 = 0.4 meV\n exchange heisenberg(J1) on shell 1\n exchange dm(0.1 * J1, (0, 0, 1)) on Cu -> Cu + (1)\n exchange heisenberg(J2) on shell 2`);
+    expect(p.frustration.map((g) => g.cycle)).toEqual(["triangle (J1 + dm #2)-(J1 + dm #2)-J2"]);
+  });
+
   it("typing a value into a coupling keeps the frustration answer only while every summed sign stays", () => {
     // The same check edit by edit, each analysis built on the one before (the build hands out the
     // same bonds and labels, so only the signs decide whether the last answer stands).

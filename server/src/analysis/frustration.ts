@@ -139,7 +139,8 @@ function computeFrustration(model: SpinModel): FrustrationGroup[] {
     // Cycles that wind around the periodic cluster are artefacts of its size, not lattice loops.
     if (c.vertices.length > 8 || c.vertices.length >= side) continue;
     const terms = c.edgeIds.flatMap((id) => edgeTerms.get(id) ?? []);
-    const names = c.edgeIds.map((id) => (edgeTerms.get(id) ?? []).map((t) => { const term = model.exchanges[t]; return term ? termLabel(term) : "?"; }).join("+")).sort();
+    // A bond several terms sum on reads "(J1 + dm #3)", so that "-" only ever separates bonds.
+    const names = c.edgeIds.map((id) => bondLabel(model, edgeTerms.get(id) ?? [])).sort();
     const key = `${c.vertices.length}|${names.join(",")}|${c.frustrated}`;
     const g = groups.get(key) ?? { couplings: names, length: c.vertices.length, frustrated: c.frustrated, count: 0, terms: new Set<number>() };
     g.count++;
@@ -154,4 +155,12 @@ function computeFrustration(model: SpinModel): FrustrationGroup[] {
     count: g.count,
     terms: [...g.terms],
   }));
+}
+
+function bondLabel(model: SpinModel, terms: readonly number[]): string {
+  const names = terms.map((t) => {
+    const term = model.exchanges[t];
+    return term ? termLabel(term) : "?";
+  });
+  return names.length === 1 ? (names[0] as string) : `(${names.join(" + ")})`;
 }
