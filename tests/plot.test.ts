@@ -35,6 +35,22 @@ describe("renderPlotSvg", () => {
     expect(svg).toMatch(/<circle [^>]*stroke="#2ca02c"/);
   });
 
+  it("keys the lattice sketch by colour and keeps two terms on one bond apart", () => {
+    // dm-chain.spw: J and D on the same nearest-neighbour bonds. Each name is written in its
+    // term's colour as an inline style (a fill attribute loses to the stylesheet's text colour),
+    // and the second term's bonds are shifted sideways instead of drawn over the first's.
+    const svg = renderPlotSvg(sample("dm-chain.spw"));
+    wellFormed(svg);
+    expect(svg).toMatch(/<text [^>]*style="fill:#1f77b4" class="legend">J<\/text>/);
+    expect(svg).toMatch(/<text [^>]*style="fill:#d62728" class="legend">D<\/text>/);
+    const starts = (color: string): string[] => [...svg.matchAll(new RegExp(`<path d="M([0-9.-]+,[0-9.-]+) Q[^"]*" fill="none" stroke="${color}"`, "g"))].map((x) => x[1]!);
+    const j = starts("#1f77b4");
+    const d = starts("#d62728");
+    expect(j.length).toBe(3);
+    expect(d.length).toBe(3);
+    expect(d.filter((p) => j.includes(p))).toEqual([]);
+  });
+
   it("explains a missing panel instead of drawing an empty curve", () => {
     const svg = renderPlotSvg(sample("triangular-j1j2.spw"));
     wellFormed(svg);

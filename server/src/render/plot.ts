@@ -183,6 +183,8 @@ export function renderPlotSvg(a: DocumentAnalysis, options: PlotOptions = {}): s
     const scale = Math.min((f3.w - 30) / (maxX - minX || 1), (f3.h - 60) / (maxY - minY || 1), 60);
     const X = (x: number): number => f3.x + 15 + (x - minX) * scale;
     const Y = (y: number): number => f3.y + f3.h - 40 - (y - minY) * scale;
+    // Terms drawn on a bond already drawn are shifted sideways, so that each stays visible.
+    const drawn = new Map<string, number>();
     m.exchanges.forEach((t, k) => {
       const color = COLORS[k % COLORS.length] as string;
       for (const b of t.bonds)
@@ -191,13 +193,24 @@ export function renderPlotSvg(a: DocumentAnalysis, options: PlotOptions = {}): s
           if (!cells.some((d) => d.every((x, i) => x === target[i]))) continue;
           const [x0, y0] = pos(c, b.from);
           const [x1, y1] = pos(target, b.to);
+          const key = [x0, y0, x1, y1].map((v) => v.toFixed(6)).join(",");
+          const before = drawn.get(key) ?? 0;
+          drawn.set(key, before + 1);
+          const length = Math.hypot(X(x1) - X(x0), Y(y1) - Y(y0)) || 1;
+          const side = 3 * before;
+          const [ox, oy] = [(-(Y(y1) - Y(y0)) / length) * side, ((X(x1) - X(x0)) / length) * side];
           // Longer bonds bow out so that they do not hide the shorter ones along a chain.
           const bow = Math.hypot(x1 - x0, y1 - y0) > 1.01 ? 0.35 * scale * (L.dimension === 1 ? 1 : 0.3) : 0;
-          const mx = (X(x0) + X(x1)) / 2;
-          const my = (Y(y0) + Y(y1)) / 2 - bow;
-          parts.push(`<path d="M${n(X(x0))},${n(Y(y0))} Q${n(mx)},${n(my)} ${n(X(x1))},${n(Y(y1))}" fill="none" stroke="${color}" stroke-width="2"/>`);
+          const mx = (X(x0) + X(x1)) / 2 + ox;
+          const my = (Y(y0) + Y(y1)) / 2 - bow + oy;
+          parts.push(`<path d="M${n(X(x0) + ox)},${n(Y(y0) + oy)} Q${n(mx)},${n(my)} ${n(X(x1) + ox)},${n(Y(y1) + oy)}" fill="none" stroke="${color}" stroke-width="2"/>`);
         }
-            parts.push(`<text x="${n(f3.x + 10 + 80 * (k % 3))}" y="${n(f3.y + f3.h - 4 + 14 * Math.floor(k / 3))}" fill="${color}" class="legend">${esc(termLabel(t))}</text>`);
+      // The key: a swatch of the term's colour and its name. The name's colour is an inline style,
+      // since the stylesheet's text colour would override a fill attribute.
+      const lx = f3.x + 10 + 80 * (k % 3);
+      const ly = f3.y + f3.h - 4 + 14 * Math.floor(k / 3);
+      parts.push(`<line x1="${n(lx)}" y1="${n(ly - 4)}" x2="${n(lx + 12)}" y2="${n(ly - 4)}" stroke="${color}" stroke-width="2"/>`);
+      parts.push(`<text x="${n(lx + 16)}" y="${n(ly)}" style="fill:${color}" class="legend">${esc(termLabel(t))}</text>`);
     });
     for (const [x, y] of pts) parts.push(`<circle cx="${n(X(x))}" cy="${n(Y(y))}" r="4" class="site"/>`);
   } else parts.push(message({ x: f3.x, y: f3.y, w: f3.w, h: f3.h, x0: 0, x1: 1, y0: 0, y1: 1 }, "no lattice"));
