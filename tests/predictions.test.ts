@@ -207,3 +207,42 @@ describe("predictions in the facade", () => {
     expect(p?.branches.reason).toMatch(/gapless/);
   });
 });
+
+describe("the two-branch form needs isotropic exchange", () => {
+  // Larmor theorem (physics notes 4): only an SU(2) H0 pins the q = 0 line at h. An XXZ chain
+  // (U(1) about the field) keeps the exact magnetization and velocity (Bethe ansatz), but no
+  // splitting: m differs from h / (2 pi v) there even without the marginal interaction.
+  const xxz = (delta: number, extra = "") =>
+    analyzeDocument(`model "m" {
+  convention antiferro-positive
+  lattice chain sites Cu
+  exchange xxz(1 meV, ${delta}) on shell 1
+  ${extra}
+  g Cu = 2
+  field 0.3 T along (0, 0, 1) sweep 0.1 T to 0.4 T steps 4
+}`).physics?.predictions;
+
+  it("gives m and v but no branches for Delta = 0.6, and says why", () => {
+    const p = xxz(0.6);
+    expect(p?.magnetization.value).toBeGreaterThan(0);
+    expect(p?.velocityMeV.value).toBeGreaterThan(0);
+    expect(p?.branches.valid).toBe(false);
+    expect(p?.branches.splittingMeV).toBeNull();
+    expect(p?.branches.reason).toMatch(/need isotropic exchange; here Jz\/J = 0\.6 on the bond at offset 1/);
+    expect(p?.sweep.map((r) => r.splittingMeV)).toEqual([null, null, null, null]);
+    expect(p?.curve).toEqual([]);
+  });
+
+  it("gives them at the isotropic point Delta = 1, written as xxz", () => {
+    const p = xxz(1);
+    expect(p?.branches.valid).toBe(true);
+    expect(p?.branches.splittingMeV).toBeGreaterThan(0);
+    expect(p?.sweep.some((r) => r.splittingMeV !== null)).toBe(true);
+  });
+
+  it("gives no DM doublet on an anisotropic chain", () => {
+    const p = xxz(0.6, "exchange dm(0.05 meV, (0, 0, 1)) on Cu -> Cu + (1)");
+    expect(p?.dmDoublet?.valid).toBe(false);
+    expect(p?.dmDoublet?.reason).toMatch(/isotropic symmetric exchange/);
+  });
+});

@@ -227,6 +227,11 @@ export function interpolateSplitting(c: ExactCalibration, m: number): number | n
   return null;
 }
 
+/** A ratio with four significant digits, without trailing zeros. */
+function fmtRatio(x: number): string {
+  return String(Number(x.toPrecision(4)));
+}
+
 export function predict(model: SpinModel, physics: Omit<PhysicsSummary, "predictions">, exactFor?: ExactProvider): Predictions {
   const empty = (reason: string): Predictions => ({
     applicable: false,
@@ -297,7 +302,15 @@ export function predict(model: SpinModel, physics: Omit<PhysicsSummary, "predict
   let splitting: number | null = null;
   let coupling: number | null = null;
   let method = "none";
-  if (gapless !== true) branchReason = "the two-branch theory needs the gapless phase; these couplings are outside it (see the region)";
+  // The two-branch form places the lower branch at h by the Larmor theorem, and reads the
+  // interaction off the susceptibility (2 pi v m - h): both hold for isotropic exchange only. With
+  // an XXZ anisotropy the q = 0 line is not pinned, and m deviates from h / (2 pi v) already
+  // without the marginal interaction (the Luttinger parameter), so that estimate measures the
+  // anisotropy (physics notes sections 4 and 6). A DM term along the field is handled below.
+  const anisotropic = c.bonds.find((b) => Math.abs(b.jZ - b.jPerp) > 1e-9 * Math.max(1, Math.abs(b.jPerp)));
+  if (anisotropic)
+    branchReason = `the two-branch formulas need isotropic exchange; here Jz/J = ${fmtRatio(anisotropic.jZ / anisotropic.jPerp)} on the bond at offset ${anisotropic.offset}, so the q = 0 line is not pinned at the Zeeman energy, and 2 (2 pi v m - h) would measure the anisotropy rather than the interaction`;
+  else if (gapless !== true) branchReason = "the two-branch theory needs the gapless phase; these couplings are outside it (see the region)";
   else if (m === null) branchReason = magnetization.reason;
   else if (m === 0) branchReason = "no magnetization at this field: the two branches meet at h = 0";
   else if (m >= 0.5) branchReason = "the chain is saturated: the response is a single magnon line";
@@ -359,7 +372,8 @@ export function predict(model: SpinModel, physics: Omit<PhysicsSummary, "predict
   let doublet: Predictions["dmDoublet"] = null;
   if (c.dmMeV !== 0) {
     const base = { valid: false, lowerMeV: null, upperMeV: null, lowerWeightFraction: null, upperWeightFraction: null, naiveLowerMeV: null, naiveUpperMeV: null, naiveApplies: null };
-    if (v === null || m === null) doublet = { ...base, reason: "needs the velocity and the magnetization of the symmetric chain", method: "two-branch form at q = theta" };
+    if (anisotropic) doublet = { ...base, reason: "needs isotropic symmetric exchange (the two branches of a Heisenberg chain)", method: "two-branch form at q = theta" };
+    else if (v === null || m === null) doublet = { ...base, reason: "needs the velocity and the magnetization of the symmetric chain", method: "two-branch form at q = theta" };
     else {
       const s = splitting ?? 0;
       const d = dmDoublet(hJ, (vAtM ?? v) / J, s / J, c.dmMeV / J, 1, m);
@@ -399,7 +413,7 @@ export function predict(model: SpinModel, physics: Omit<PhysicsSummary, "predict
       }
       let dd: number | null = null;
       let ddHow: string | null = null;
-      if (mm !== null && mm > 0 && mm < 0.5 && gapless === true) {
+      if (mm !== null && mm > 0 && mm < 0.5 && gapless === true && !anisotropic) {
         const ex = exact ? interpolateSplitting(exact, mm) : null;
         if (ex !== null) {
           dd = ex;
