@@ -304,6 +304,12 @@ describe("stability regions", () => {
     expect(p.family.description).toMatch(/no tabulated/);
   });
 
+  it("a spin-1 square model says that the square phase diagrams are tabulated for spin 1/2", () => {
+    const { p } = analyze(` exchange heisenberg(1 meV) on shell 1\n exchange heisenberg(0.3 meV) on shell 2`, "spin 1\n convention antiferro-positive\n lattice square");
+    expect(p.family.placement).toBeNull();
+    expect(p.family.description).toBe("a spin-1 square model: the tabulated square phase diagrams are for spin 1/2");
+  });
+
   it("triangular J1-J2 uses the classical boundary 1/8 (derivable classical minimum)", () => {
     const { p } = analyze(` exchange heisenberg(1 meV) on shell 1\n exchange heisenberg(0.05 meV) on shell 2`, "spin 1/2\n convention antiferro-positive\n lattice triangular");
     expect(p.family.placement?.family).toBe("triangular-j1j2");

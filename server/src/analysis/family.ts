@@ -163,5 +163,8 @@ export function detectFamily(model: SpinModel): FamilyResult {
     }
     return place({ kind: `${preset}-j1j2` as "square-j1j2", j1: J1, j2: J2 }, `spin-1/2 ${preset} J1-J2 Heisenberg model`);
   }
+  if (L.dimension === 2 && (preset === "square" || preset === "triangular" || preset === "honeycomb" || preset === "kagome")) {
+    return none(`a spin-${Number.isNaN(spin) ? "mixed" : spin} ${preset} model: the tabulated ${preset} phase diagrams are for spin 1/2`);
+  }
   return none("this lattice and coupling set match no tabulated family");
 }

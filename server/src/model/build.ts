@@ -1322,8 +1322,15 @@ class ModelBuilder {
   }
 
   private clusterOf(s: Extract<Statement, { kind: "cluster" }>): ClusterSpec | null {
-    const v = this.eval(s.size);
     const dim = this.lattice?.dimension ?? 1;
+    // "cluster 4 x 4" (as the report prints a size) reads as 4 in a unit named x, then a stray 4.
+    const size = s.size;
+    if (size.kind === "number" && size.unit && (size.unit.name === "x" || size.unit.name === "X")) {
+      const example = `(${new Array(Math.max(dim, 2)).fill(size.text).join(", ")})`;
+      this.report(diag("spw-cluster-invalid", size.span, `'${size.text} ${size.unit.name} ...' is not a cluster size: give the cells per lattice direction as a tuple, e.g. cluster ${example} periodic.`));
+      return null;
+    }
+    const v = this.eval(s.size);
     if (!v) return null;
     const comps = v.shape.length <= 1 ? [...v.data] : null;
     if (!comps || v.energy !== 0 || v.field !== 0 || comps.some((x) => !Number.isInteger(x) || x < 1 || x > 4096)) {
