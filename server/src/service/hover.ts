@@ -148,7 +148,7 @@ function siteHover(model: SpinModel, name: string): string {
  * one summary means one text, and typing elsewhere in a file does not build the text again. (A
  * test holds hovers after edits to fresh analyses.)
  */
-const fieldHovers = new WeakMap<object, { readonly places: string; readonly text: string | null }>();
+const fieldHovers = new WeakMap<object, { readonly places: Places; readonly text: string | null }>();
 
 /**
  * The last field hover with what it read: a new summary (a coupling typed into) often leaves all
@@ -163,26 +163,49 @@ let lastFieldHover: {
   readonly lattice: object | null;
   readonly reason: string | null;
   readonly predictions: object | null;
-  readonly places: string;
+  readonly places: Places;
   readonly text: string | null;
 } | null = null;
 
 /** How many breaking terms the field hover lists before it only counts the rest. */
 const FIELD_HOVER_PLACES = 6;
 
-/** The lines of the terms that break the Larmor protection, each with its kind (empty when protected). */
-function breakingPlaces(a: DocumentAnalysis): { line: number; kind: string }[] {
+/** The terms that break the Larmor protection that the hover lists (lines and kinds), how many more there are, and for which document. */
+interface Places {
+  readonly uri: string | undefined;
+  readonly lines: readonly number[];
+  readonly kinds: readonly BreakingTerm["kind"][];
+  readonly more: number;
+}
+
+const NO_PLACES: readonly number[] = [];
+
+function breakingPlaces(a: DocumentAnalysis, uri: string | undefined): Places {
   const physics = a.physics;
-  if (!physics || !physics.resonance.hasField || physics.resonance.protected) return [];
-  return physics.symmetry.breaking.map((b) => ({ line: a.lines.positionAt(b.span.start).line + 1, kind: kindText(b.kind) }));
+  if (!physics || !physics.resonance.hasField || physics.resonance.protected) return { uri, lines: NO_PLACES, kinds: [], more: 0 };
+  const breaking = physics.symmetry.breaking;
+  const count = Math.min(breaking.length, FIELD_HOVER_PLACES);
+  const lines: number[] = [];
+  const kinds: BreakingTerm["kind"][] = [];
+  for (let k = 0; k < count; k++) {
+    const b = breaking[k] as BreakingTerm;
+    lines.push(a.lines.positionAt(b.span.start).line + 1);
+    kinds.push(b.kind);
+  }
+  return { uri, lines, kinds, more: breaking.length - count };
+}
+
+function samePlaces(x: Places, y: Places): boolean {
+  if (x.uri !== y.uri || x.more !== y.more || x.lines.length !== y.lines.length) return false;
+  for (let k = 0; k < x.lines.length; k++) if (x.lines[k] !== y.lines[k] || x.kinds[k] !== y.kinds[k]) return false;
+  return true;
 }
 
 function fieldHover(a: DocumentAnalysis, model: SpinModel, uri: string | undefined): string | null {
   const physics = a.physics;
-  const places = breakingPlaces(a);
-  const placesKey = `${uri ?? ""}\n${places.map((p) => `${p.line} ${p.kind}`).join("\n")}`;
+  const places = breakingPlaces(a, uri);
   const kept = physics ? fieldHovers.get(physics) : undefined;
-  if (kept && kept.places === placesKey) return kept.text;
+  if (kept && samePlaces(kept.places, places)) return kept.text;
   const field = model.field;
   if (!field) return null;
   const resonance = physics?.resonance;
@@ -191,11 +214,11 @@ function fieldHover(a: DocumentAnalysis, model: SpinModel, uri: string | undefin
   const lattice = model.lattice ?? null;
   const last = lastFieldHover;
   const text =
-    last && last.field === field && last.lattice === lattice && last.reason === reason && last.predictions === predictions && last.places === placesKey
+    last && last.field === field && last.lattice === lattice && last.reason === reason && last.predictions === predictions && samePlaces(last.places, places)
       ? last.text
-      : fieldHoverText(a, model, places, uri);
-  lastFieldHover = { field, lattice, reason, predictions, places: placesKey, text };
-  if (physics) fieldHovers.set(physics, { places: placesKey, text });
+      : fieldHoverText(a, model, places);
+  lastFieldHover = { field, lattice, reason, predictions, places, text };
+  if (physics) fieldHovers.set(physics, { places, text });
   return text;
 }
 
@@ -213,7 +236,7 @@ function brokenBy(breaking: readonly BreakingTerm[]): string {
 }
 
 /** The Zeeman energy of every site in the file's field, and the sweep's end if there is one. */
-function fieldHoverText(a: DocumentAnalysis, model: SpinModel, places: readonly { line: number; kind: string }[], uri: string | undefined): string | null {
+function fieldHoverText(a: DocumentAnalysis, model: SpinModel, places: Places): string | null {
   const field = model.field;
   if (!field) return null;
   const out = [
@@ -230,11 +253,12 @@ function fieldHoverText(a: DocumentAnalysis, model: SpinModel, places: readonly 
   const resonance = a.physics?.resonance;
   // The reason is a whole sentence that names the q = 0 resonance itself.
   if (resonance?.hasField && resonance.reason) out.push(resonance.reason);
-  if (places.length) {
+  if (places.lines.length) {
+    const uri = places.uri;
     const at = (line: number): string => (uri ? `[line ${line}](${uri}#L${line})` : `line ${line}`);
     // A hover is a glance: the first few places, and how many more (the diagnostic lists all).
-    const shown = places.slice(0, FIELD_HOVER_PLACES).map((p) => `${at(p.line)}: ${p.kind}`);
-    if (places.length > FIELD_HOVER_PLACES) shown.push(`and ${places.length - FIELD_HOVER_PLACES} more (each is a related location of the resonance diagnostic)`);
+    const shown = places.lines.map((line, k) => `${at(line)}: ${kindText(places.kinds[k] as BreakingTerm["kind"])}`);
+    if (places.more > 0) shown.push(`and ${places.more} more (each is a related location of the resonance diagnostic)`);
     out.push(`Broken by:\n\n${markdownList(shown)}`);
   }
   const predictions = a.physics?.predictions;
