@@ -34,6 +34,13 @@ describe("preview HTML", () => {
     expect(html).toContain("var(--vscode-foreground)");
   });
 
+  it("lists each breaking term by its line and its sentence, without a kind prefix", () => {
+    // CHAIN: the DM term is on line 11; its sentence names it ("A DM vector breaks SU(2): ...").
+    const symmetry = summary.physics.find((i) => i.title === "Symmetry");
+    expect(symmetry?.lines.filter((l) => l.startsWith("line "))).toEqual([expect.stringMatching(/^line 11: A DM vector breaks SU\(2\): /)]);
+    expect(symmetry?.lines.some((l) => l.startsWith("dm: "))).toBe(false);
+  });
+
   it("makes a different 32-character nonce each time", () => {
     expect(makeNonce()).toMatch(/^[A-Za-z0-9]{32}$/);
     expect(makeNonce()).not.toBe(makeNonce());

@@ -46,7 +46,8 @@ export function physicsItems(a: DocumentAnalysis): PhysicsItem[] {
   const sym = p.symmetry;
   if (sym) {
     const lines = [`without the field: ${symmetryName(sym.h0, sym.axis)}`, `with the field: ${symmetryName(sym.full, sym.fullAxis)}`];
-    for (const b of sym.breaking ?? []) if (b?.consequence) lines.push(`${b.kind}: ${b.consequence}`);
+    // Each sentence names its term ("A DM vector breaks SU(2): ..."): the line says where it is.
+    for (const b of sym.breaking ?? []) if (b?.consequence) lines.push(`line ${a.lines.positionAt(b.span.start).line + 1}: ${b.consequence}`);
     items.push({ title: "Symmetry", lines });
   }
   const couplings = p.couplings ?? [];
