@@ -9,6 +9,7 @@ import type { ChainCouplings, ExactCalibration } from "../server/src/analysis/pr
 import { solveExact } from "../server/src/physics/ed/solve";
 import { nearSaturationBranch } from "../server/src/physics/magnons";
 import { fieldTheorySplitting, dmDoublet } from "../server/src/physics/branches";
+import { predictionLines } from "../server/src/service/predictionsView";
 
 const J = 1; // meV
 function chain(j2: number, dm = 0, fieldT = 1): string {
@@ -231,6 +232,10 @@ describe("the two-branch form needs isotropic exchange", () => {
     expect(p?.branches.reason).toMatch(/need isotropic exchange; here Jz\/J = 0\.6 on the bond at offset 1/);
     expect(p?.sweep.map((r) => r.splittingMeV)).toEqual([null, null, null, null]);
     expect(p?.curve).toEqual([]);
+    // The regime label is about m only; the branch line says why no splitting is given.
+    const lines = predictionLines(p!);
+    expect(lines).toContain("regime by magnetization: two-branch");
+    expect(lines.some((l) => l.startsWith("q = 0 branches: no splitting given: the two-branch formulas need isotropic exchange"))).toBe(true);
   });
 
   it("gives them at the isotropic point Delta = 1, written as xxz", () => {

@@ -14,7 +14,8 @@ export function predictionLines(p: Predictions, options: { sweep?: boolean } = {
   out.push(p.magnetization.value === null ? `magnetization m: ${val(p.magnetization, "")}` : `magnetization m = ${val(p.magnetization, " per site")}`);
   out.push(`saturation: ${val(p.saturationMeV, " meV")}${p.saturationFieldT !== null ? ` = ${fmt(p.saturationFieldT)} T along the field` : ""}`);
   out.push(`velocity: ${val(p.velocityMeV, " meV x lattice spacing")}`);
-  if (p.regime) out.push(`regime: ${p.regime}`);
+  // The regime is set by m alone (docs/analysis.md); whether its formulas apply is said per line below.
+  if (p.regime) out.push(`regime by magnetization: ${p.regime}`);
   const b = p.branches;
   if (b.valid && b.splittingMeV !== null)
     out.push(`q = 0 branches: Larmor line at ${fmt(b.lowerAtZeroMeV ?? 0)} meV (all the weight), second branch at ${fmt(b.upperAtZeroMeV ?? 0)} meV; splitting ${fmt(b.splittingMeV)} meV = ${fmt(b.splittingOverZeeman ?? 0)} h [${b.method}]`);
