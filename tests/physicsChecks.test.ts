@@ -97,6 +97,23 @@ describe("symmetry classification from the file", () => {
   });
 });
 
+describe("where a field finding points", () => {
+  // h_i = muB g_i^T B: with an isotropic g the direction of h is the field's, so a field
+  // transverse to the axis of H0 is the field statement's doing; with an anisotropic g the
+  // g-tensor turns h away from B, and the g statement is the place (derivable).
+  const transverse = (g: string) => {
+    const { p, spanText } = analyze(` exchange xxz(1 meV, 0.5) on shell 1\n g Cu = ${g}\n field 1 T along (1, 0, 0)`);
+    const f = p.symmetry.breaking.find((b) => b.kind === "transverse-field");
+    return f ? spanText(f.span) : undefined;
+  };
+  it("points at the field when g is isotropic", () => {
+    expect(transverse("2")).toBe("field 1 T along (1, 0, 0)");
+  });
+  it("points at the g-tensor when g is anisotropic", () => {
+    expect(transverse("[[2, 0, 0], [0, 2, 0], [0, 0, 2.2]]")).toBe("g Cu = [[2, 0, 0], [0, 2, 0], [0, 0, 2.2]]");
+  });
+});
+
 describe("the expect claim", () => {
   it("expect su2 on a DM chain is an error pointing at the DM term", () => {
     const { a, text } = analyze(` exchange heisenberg(1 meV) on shell 1\n exchange dm(0.1 meV, (0, 0, 1)) on Cu -> Cu + (1)\n expect su2`);

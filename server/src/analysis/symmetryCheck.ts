@@ -109,6 +109,12 @@ function inputsOf(term: Exchange): readonly BondTensorInput[] {
   return made;
 }
 
+/** Whether a 3x3 matrix is a multiple of the identity (exactly: as written, an isotropic g is). */
+function isScalarMatrix(m: Mat3): boolean {
+  const [a, b, c] = m;
+  return a[1] === 0 && a[2] === 0 && b[0] === 0 && b[2] === 0 && c[0] === 0 && c[1] === 0 && a[0] === b[1] && b[1] === c[2];
+}
+
 export function analyzeSymmetry(model: SpinModel): SymmetryResult {
   // Where each classifier id is written: exchange terms by index, the rest by id.
   const termOf: (Exchange | undefined)[] = [];
@@ -124,9 +130,15 @@ export function analyzeSymmetry(model: SpinModel): SymmetryResult {
     spans.set(id, t.span);
     return { id, matrix: t.matrixMeV, spin: sites[t.site]?.spin ?? 0.5, site: t.site };
   });
+  // A site's effective field is g^T B: a site-dependent field comes from the g statements, and so
+  // does a transverse one when g is anisotropic; with an isotropic g it is the field's direction.
+  const transverseSpans = new Map<string, Span>();
   const fields = siteFieldsMeV(model).map((vector, s) => {
     const id = `field:${s}`;
-    spans.set(id, sites[s]?.gSpan ?? model.field?.span ?? model.nameSpan);
+    const gSpan = sites[s]?.gSpan ?? model.field?.span ?? model.nameSpan;
+    spans.set(id, gSpan);
+    const g = sites[s]?.g;
+    if (model.field && g && isScalarMatrix(g)) transverseSpans.set(id, model.field.span);
     return { id, vector, site: s };
   });
   const c = classifySymmetry({ bonds, singleIon, fields, energyUnit: "meV" });
@@ -143,7 +155,7 @@ export function analyzeSymmetry(model: SpinModel): SymmetryResult {
         // Findings are per bond pair; name only the terms that carry the breaking part themselves.
         if (!(carries(term) & (f.kind === "dm" ? CARRIES_DM : CARRIES_ANISOTROPY))) continue;
         span = term.span;
-      } else span = spans.get(id);
+      } else span = (f.kind === "transverse-field" ? transverseSpans.get(id) : undefined) ?? spans.get(id);
       if (!span) continue;
       const bit = KIND_BIT[f.kind];
       const before = named.get(span.start) ?? 0;
