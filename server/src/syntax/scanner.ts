@@ -52,7 +52,22 @@ export const TOKEN = 1;
 export const COMMENT = 2;
 export const ERROR = 3;
 
-const KEYWORD_TYPES = new Map<string, TokenType>(KEYWORDS.map((w) => [w, Kw[w]]));
+/**
+ * Keywords by length, first and last character, so that an identifier is looked up without
+ * cutting it out of the text (the block reader scans every identifier of the file, and most are
+ * not keywords). A candidate is confirmed with startsWith at the same length.
+ */
+const KEYWORDS_BY_SHAPE = new Map<number, { readonly word: string; readonly type: TokenType }[]>();
+function shapeKey(length: number, first: number, last: number): number {
+  return (length * 65536 + first) * 65536 + last;
+}
+for (const w of KEYWORDS) {
+  const key = shapeKey(w.length, w.charCodeAt(0), w.charCodeAt(w.length - 1));
+  const list = KEYWORDS_BY_SHAPE.get(key) ?? [];
+  list.push({ word: w, type: Kw[w] });
+  KEYWORDS_BY_SHAPE.set(key, list);
+}
+const LONGEST_KEYWORD = Math.max(...KEYWORDS.map((w) => w.length));
 
 /** Single-character punctuation by character code. */
 const PUNCTUATION: (TokenType | undefined)[] = [];
@@ -161,7 +176,13 @@ export class Scanner {
       let q = p + 1;
       while (q < limit && isIdentPart(text.charCodeAt(q))) q++;
       this.kind = TOKEN;
-      this.type = q - p <= 10 ? (KEYWORD_TYPES.get(text.slice(p, q)) ?? Identifier) : Identifier;
+      let type: TokenType = Identifier;
+      const length = q - p;
+      if (length <= LONGEST_KEYWORD) {
+        const candidates = KEYWORDS_BY_SHAPE.get(shapeKey(length, c, text.charCodeAt(q - 1)));
+        if (candidates) for (const k of candidates) if (text.startsWith(k.word, p)) type = k.type;
+      }
+      this.type = type;
       return q;
     }
     if (isDigit(c) || (c === 46 && p + 1 < limit && isDigit(text.charCodeAt(p + 1)))) {
