@@ -158,12 +158,10 @@ describe("hover on the field and the symmetry claim: predictions and computed sy
 
   it("the field hover links to each term that breaks the protection, by line", () => {
     // CHAIN: the DM term (line 11) breaks SU(2); the spin-1/2 anisotropy is a constant and does not.
-    const text = CHAIN.replace("$0", "");
-    const a = analyzeMarked(CHAIN.replace("fie", "fi$0e")).a;
-    const at = a.text.indexOf("field ") + 2;
+    const { a, offset: at } = analyzeMarked(CHAIN.replace("field 3.5", "fi$0eld 3.5"));
     expect(doHover(a, at, "file:///w/chain.spw")?.markdown).toMatch(/\nBroken by:\n\n- \[line 11\]\(file:\/\/\/w\/chain\.spw#L11\): a Dzyaloshinskii-Moriya term\n/);
     expect(doHover(a, at)?.markdown).toMatch(/\n- line 11: a Dzyaloshinskii-Moriya term\n/);
-    expect(text.split("\n")[10]).toMatch(/^ {2}exchange dm/);
+    expect(a.text.split("\n")[10]).toMatch(/^ {2}exchange dm/);
     // Protected: nothing to list.
     expect(hoverAt(HEISENBERG)).not.toMatch(/Broken by/);
     // Eight DM terms: the first six, then a count.

@@ -227,11 +227,6 @@ export function interpolateSplitting(c: ExactCalibration, m: number): number | n
   return null;
 }
 
-/** A ratio with four significant digits, without trailing zeros. */
-function fmtRatio(x: number): string {
-  return String(Number(x.toPrecision(4)));
-}
-
 export function predict(model: SpinModel, physics: Omit<PhysicsSummary, "predictions">, exactFor?: ExactProvider): Predictions {
   const empty = (reason: string): Predictions => ({
     applicable: false,
@@ -309,7 +304,7 @@ export function predict(model: SpinModel, physics: Omit<PhysicsSummary, "predict
   // anisotropy (physics notes sections 4 and 6). A DM term along the field is handled below.
   const anisotropic = c.bonds.find((b) => Math.abs(b.jZ - b.jPerp) > 1e-9 * Math.max(1, Math.abs(b.jPerp)));
   if (anisotropic)
-    branchReason = `the two-branch formulas need isotropic exchange; here Jz/J = ${fmtRatio(anisotropic.jZ / anisotropic.jPerp)} on the bond at offset ${anisotropic.offset}, so the q = 0 line is not pinned at the Zeeman energy, and 2 (2 pi v m - h) would measure the anisotropy rather than the interaction`;
+    branchReason = `the two-branch formulas need isotropic exchange; here Jz/J = ${Number((anisotropic.jZ / anisotropic.jPerp).toPrecision(4))} on the bond at offset ${anisotropic.offset}, so the q = 0 line is not pinned at the Zeeman energy, and 2 (2 pi v m - h) would measure the anisotropy rather than the interaction`;
   else if (gapless !== true) branchReason = "the two-branch theory needs the gapless phase; these couplings are outside it (see the region)";
   else if (m === null) branchReason = magnetization.reason;
   else if (m === 0) branchReason = "no magnetization at this field: the two branches meet at h = 0";

@@ -4,10 +4,10 @@
 import { diag, type Diagnostic, type RelatedInfo } from "../base/diagnostics";
 import type { Span } from "../base/text";
 import { bondKeyOf } from "../model/lattice";
-import { bondMatrix, type SpinModel, type SymmetryClass } from "../model/model";
+import { bondMatrix, type ExchangeTerm, type SpinModel, type SymmetryClass } from "../model/model";
 import { MU_B_MEV_PER_T } from "../model/units";
 import { dot3, mulMatVec3, scale3, transpose3 } from "../physics/linalg3";
-import { classifySymmetry, type BondTensorInput, type FindingKind, type SymmetryClassification } from "../physics/symmetry";
+import { classifySymmetry, sameAxis, type BondTensorInput, type FindingKind, type SymmetryClassification } from "../physics/symmetry";
 import type { Mat3, Vec3 } from "../physics/types";
 
 export interface BreakingTerm {
@@ -62,9 +62,9 @@ const KIND_BIT: Record<FindingKind, number> = {
 const CARRIES_DM = 1;
 const CARRIES_ANISOTROPY = 2;
 /** Which breaking parts an exchange term carries itself, by term (a function of its parts). */
-const carried = new WeakMap<SpinModel["exchanges"][number], number>();
+const carried = new WeakMap<ExchangeTerm, number>();
 
-function carries(term: SpinModel["exchanges"][number]): number {
+function carries(term: ExchangeTerm): number {
   let bits = carried.get(term);
   if (bits === undefined) {
     const d = term.parts;
@@ -82,11 +82,10 @@ function carries(term: SpinModel["exchanges"][number]): number {
  * they run high, numbering starts afresh together with the inputs made from it.
  */
 let pairNumbers = new Map<string, number>();
-type Exchange = SpinModel["exchanges"][number];
 /** The classifier inputs of an exchange term, one per bond (made once per term object). */
-let termInputs = new WeakMap<Exchange, readonly BondTensorInput[]>();
+let termInputs = new WeakMap<ExchangeTerm, readonly BondTensorInput[]>();
 
-function inputsOf(term: Exchange): readonly BondTensorInput[] {
+function inputsOf(term: ExchangeTerm): readonly BondTensorInput[] {
   let inputs = termInputs.get(term);
   if (inputs) return inputs;
   if (pairNumbers.size >= 1 << 24) {
@@ -117,7 +116,7 @@ function isScalarMatrix(m: Mat3): boolean {
 
 export function analyzeSymmetry(model: SpinModel): SymmetryResult {
   // Where each classifier id is written: exchange terms by index, the rest by id.
-  const termOf: (Exchange | undefined)[] = [];
+  const termOf: (ExchangeTerm | undefined)[] = [];
   const spans = new Map<string, Span>();
   const bonds: BondTensorInput[] = [];
   for (const term of model.exchanges) {
@@ -187,8 +186,9 @@ export function kindText(kind: FindingKind): string {
   return KIND_TEXT[kind];
 }
 
-function sameVec(a: Vec3 | null, b: Vec3 | null): boolean {
-  return a === b || (a !== null && b !== null && Object.is(a[0], b[0]) && Object.is(a[1], b[1]) && Object.is(a[2], b[2]));
+/** Field findings break only the symmetry H0 leaves, not the SU(2) of H0. */
+export function isFieldFinding(kind: FindingKind): boolean {
+  return kind === "non-uniform-field" || kind === "transverse-field";
 }
 
 interface ExpectTexts {
@@ -206,7 +206,7 @@ let lastExpectTexts: ExpectTexts | null = null;
 
 function expectTexts(claim: SymmetryClass, claimAxis: Vec3 | null, computed: SymmetryClass, axis: Vec3 | null): ExpectTexts {
   const last = lastExpectTexts;
-  if (last && last.claim === claim && last.computed === computed && sameVec(last.claimAxis, claimAxis) && sameVec(last.axis, axis)) return last;
+  if (last && last.claim === claim && last.computed === computed && sameAxis(last.claimAxis, claimAxis) && sameAxis(last.axis, axis)) return last;
   const texts: ExpectTexts = {
     claim,
     claimAxis,
@@ -231,7 +231,7 @@ export function checkExpect(model: SpinModel, sym: SymmetryResult): Diagnostic[]
   if (rank[e.claim] === rank[computed] && !wrongAxis) return [];
   const { computedText, replacement, claimText } = expectTexts(e.claim, e.axis, computed, sym.axis);
   const related: RelatedInfo[] = sym.breaking
-    .filter((b) => b.kind !== "non-uniform-field" && b.kind !== "transverse-field")
+    .filter((b) => !isFieldFinding(b.kind))
     .map((b) => ({ span: b.span, message: `${kindText(b.kind)} breaks SU(2) here` }));
   // Offsets would change with every edit above the statement: the fix's extent is a length (from
   // the claim to the end of the statement), so unchanged diagnostics read the same.

@@ -1,7 +1,7 @@
 // The readable report of a model (`spinwright report`): parameters, lattice, couplings, field,
 // then what the physics analysis finds. CLI layer.
 import type { DocumentAnalysis } from "../analysis/analyze";
-import { formatNumber } from "../service/common";
+import { formatNumber, lineNumberAt } from "../service/common";
 import { describeBond } from "../model/build";
 import { MEV_PER_GHZ, MEV_PER_K } from "../model/units";
 import { formatText } from "./format";
@@ -77,13 +77,9 @@ function physicsLines(a: DocumentAnalysis): string[] {
   const p = a.physics;
   if (!p) return [];
   const out: string[] = [];
-  const at = (span: { start: number }) => {
-    const q = a.lines.positionAt(span.start);
-    return `line ${q.line + 1}`;
-  };
   out.push(`symmetry (without the field): ${describeClass(p.symmetry.h0, p.symmetry.axis)}; with the field: ${describeClass(p.symmetry.full, p.symmetry.fullAxis)}`);
   // Each consequence sentence names its term and what it breaks (SU(2), or the symmetry H0 keeps).
-  for (const b of p.symmetry.breaking) out.push(`  ${at(b.span)}: ${b.consequence}`);
+  for (const b of p.symmetry.breaking) out.push(`  line ${lineNumberAt(a, b.span.start)}: ${b.consequence}`);
   if (p.couplings.length > 0)
     out.push(`couplings: ${p.couplings.map((c) => `${c.name} ${c.character}${c.character === "antisymmetric" ? ` (|D| = ${fmt(c.dmMeV)} meV)` : ` (${fmt(c.valueMeV)} meV)`}`).join(", ")}`);
   const frustrated = p.frustration.filter((f) => f.frustrated);

@@ -503,13 +503,9 @@ function bondFacts(k: number, m: Mat3, tolerance: number, unit: string): BondFac
   return { entries: [...m[0], ...m[1], ...m[2]], tolerance, unit, d, breaks: d.norms.dm > tolerance || d.norms.anisotropic > tolerance };
 }
 
-/** The H0 candidate axes of the last classification whose strongest terms were all bond terms, by their facts. */
-let lastCandidates: { readonly facts: readonly BondFacts[]; readonly axes: readonly Vec3[] } | null = null;
-
 /** Forgets the kept bond facts (tests compare kept and fresh classifications). */
 export function forgetSymmetryFacts(): void {
   lastBondFacts = [];
-  lastCandidates = null;
 }
 
 function dedupeAxes(axes: readonly Vec3[]): Vec3[] {
@@ -765,16 +761,7 @@ function classifyH0(terms: readonly AnisotropicTerm[], tolerance: number): { h0:
   // A bond term's norms are its group's (the same functions of the same numbers).
   const strength = (t: AnisotropicTerm): number => (t.facts ? Math.max(t.facts.d.norms.dm, t.facts.d.norms.anisotropic) : Math.max(norm3(t.dm), normMat3(t.anisotropic)));
   const strongest = [...terms].sort((a, b) => strength(b) - strength(a)).slice(0, 3);
-  // The candidates of the strongest bond terms are their facts' own: the same three facts (in
-  // the same order) give the same deduplicated list as last time.
-  const facts = strongest.map((t) => t.facts ?? null);
-  const kept = lastCandidates;
-  let candidates: readonly Vec3[];
-  if (kept && !facts.includes(null) && kept.facts.length === facts.length && kept.facts.every((f, k) => f === facts[k])) candidates = kept.axes;
-  else {
-    candidates = dedupeAxes(strongest.flatMap((t) => (t.facts ? (t.facts.candidates ??= candidateAxes(t, tolerance)) : candidateAxes(t, tolerance))));
-    lastCandidates = facts.includes(null) ? null : { facts: facts as BondFacts[], axes: candidates };
-  }
+  const candidates = dedupeAxes(strongest.flatMap((t) => (t.facts ? (t.facts.candidates ??= candidateAxes(t, tolerance)) : candidateAxes(t, tolerance))));
   for (const n of candidates) {
     if (terms.every((t) => commutesWith(t, n, tolerance))) return { h0: "u1", h0Axis: n };
   }
@@ -833,7 +820,8 @@ function classifyFields(fieldGroups: readonly { vector: Vec3 }[], h0: SymmetryCl
   return { hasField, meanField, fieldsUniform, uniformFieldDirection, full, fullAxis, fieldsParallelToAxis };
 }
 
-function sameAxis(a: Vec3 | null, b: Vec3 | null): boolean {
+/** Whether two axes (or both none) are the same to the bit. */
+export function sameAxis(a: Vec3 | null, b: Vec3 | null): boolean {
   if (a === b) return true;
   return a !== null && b !== null && Object.is(a[0], b[0]) && Object.is(a[1], b[1]) && Object.is(a[2], b[2]);
 }

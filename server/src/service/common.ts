@@ -37,6 +37,11 @@ export function tokenSpan(t: IToken): Span {
   return { start: t.startOffset, end: (t.endOffset ?? t.startOffset) + 1 };
 }
 
+/** The line an offset is on, counted from 1 as people count lines ("line 12"). */
+export function lineNumberAt(a: DocumentAnalysis, offset: number): number {
+  return a.lines.positionAt(offset).line + 1;
+}
+
 export function spanContains(span: Span, offset: number): boolean {
   return offset >= span.start && offset <= span.end;
 }

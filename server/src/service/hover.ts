@@ -11,10 +11,10 @@ import { unitKey, unitInfo, constantNamed } from "../model/units";
 import type { Expr, Statement } from "../syntax/ast";
 import { statementExprs, walkExpr } from "../syntax/ast";
 import { Identifier, isKeyword } from "../syntax/lexer";
-import { energyText, firstModel, formatNumber, spanContains, statementAt, symbolAt, tokenAt, tokenSpan } from "./common";
+import { energyText, firstModel, formatNumber, lineNumberAt, spanContains, statementAt, symbolAt, tokenAt, tokenSpan } from "./common";
 import { physicsItems } from "./physicsView";
 import { markdownList, predictionLines } from "./predictionsView";
-import { describeClass, kindText, type BreakingTerm } from "../analysis/symmetryCheck";
+import { describeClass, isFieldFinding, kindText, type BreakingTerm } from "../analysis/symmetryCheck";
 import { energyConversions, parameterValueText, zeemanLines, zeemanText } from "./quantities";
 import { CLAUSE_WORDS, CONVENTIONS, KIND_SIGNATURES, STATEMENT_WORDS, SYMMETRY_CLAIMS, unitDescription } from "./vocabulary";
 
@@ -189,7 +189,7 @@ function breakingPlaces(a: DocumentAnalysis, uri: string | undefined): Places {
   const kinds: BreakingTerm["kind"][] = [];
   for (let k = 0; k < count; k++) {
     const b = breaking[k] as BreakingTerm;
-    lines.push(a.lines.positionAt(b.span.start).line + 1);
+    lines.push(lineNumberAt(a, b.span.start));
     kinds.push(b.kind);
   }
   return { uri, lines, kinds, more: breaking.length - count };
@@ -229,7 +229,7 @@ function fieldHover(a: DocumentAnalysis, model: SpinModel, uri: string | undefin
 function brokenBy(breaking: readonly BreakingTerm[]): string {
   const inH0 = new Set<string>();
   const byField = new Set<string>();
-  for (const b of breaking) (b.kind === "transverse-field" || b.kind === "non-uniform-field" ? byField : inH0).add(kindText(b.kind));
+  for (const b of breaking) (isFieldFinding(b.kind) ? byField : inH0).add(kindText(b.kind));
   const h0 = inH0.size ? ` SU(2) broken in H0 by: ${[...inH0].join("; ")}.` : "";
   const field = byField.size ? ` Broken further by the field: ${[...byField].join("; ")}.` : "";
   return h0 + field;

@@ -6,7 +6,7 @@ import type { DocumentAnalysis } from "../analysis/analyze";
 import type { RegionPlacement } from "../physics/regions";
 import type { Vec3 } from "../physics/types";
 import { predictionLines } from "./predictionsView";
-import { energyText, formatNumber } from "./common";
+import { energyText, formatNumber, lineNumberAt } from "./common";
 
 /** One titled piece of the physics summary. */
 export interface PhysicsItem {
@@ -47,7 +47,7 @@ export function physicsItems(a: DocumentAnalysis): PhysicsItem[] {
   if (sym) {
     const lines = [`without the field: ${symmetryName(sym.h0, sym.axis)}`, `with the field: ${symmetryName(sym.full, sym.fullAxis)}`];
     // Each sentence names its term ("A DM vector breaks SU(2): ..."): the line says where it is.
-    for (const b of sym.breaking ?? []) if (b?.consequence) lines.push(`line ${a.lines.positionAt(b.span.start).line + 1}: ${b.consequence}`);
+    for (const b of sym.breaking ?? []) if (b?.consequence) lines.push(`line ${lineNumberAt(a, b.span.start)}: ${b.consequence}`);
     items.push({ title: "Symmetry", lines });
   }
   const couplings = p.couplings ?? [];

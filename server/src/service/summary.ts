@@ -6,7 +6,7 @@ import type { DocumentAnalysis } from "../analysis/analyze";
 import type { Severity } from "../base/diagnostics";
 import { describeBond } from "../model/build";
 import { clusterSiteCount } from "./codeLens";
-import { displayUnitOf, energyText, firstModel, formatNumber, type ServiceSettings } from "./common";
+import { displayUnitOf, energyText, firstModel, formatNumber, lineNumberAt, type ServiceSettings } from "./common";
 import { physicsItems, type PhysicsItem } from "./physicsView";
 import { markdownList } from "./predictionsView";
 import { parameterValueText, zeemanLines, zeemanText } from "./quantities";
@@ -61,7 +61,7 @@ export function analysisSummary(a: DocumentAnalysis, settings: ServiceSettings):
       : null,
     cluster: m?.cluster ? `${m.cluster.cells.join(" × ")} cells, ${m.cluster.boundary}${siteCount !== null ? `, ${siteCount} sites` : ""}` : null,
     physics: physicsItems(a),
-    diagnostics: a.diagnostics.map((d) => ({ severity: d.severity, code: d.code, line: a.lines.positionAt(d.span.start).line + 1, message: d.message })),
+    diagnostics: a.diagnostics.map((d) => ({ severity: d.severity, code: d.code, line: lineNumberAt(a, d.span.start), message: d.message })),
     displayUnit: unit,
   };
 }
