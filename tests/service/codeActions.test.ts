@@ -61,6 +61,39 @@ describe("code actions", () => {
     expect(codes(text.replace("dm(0 meV", "dm(1e-9 meV"))).not.toContain("spw-term-zero");
   });
 
+  it("removes a name written before a custom lattice's braces; the cell and the statements after it still build", () => {
+    const text = `model "m" {\n  spin 1/2\n  convention antiferro-positive\n  lattice custom {\n    vector a1 = (1, 0, 0)\n    site A = (0, 0, 0)\n  }\n  exchange heisenberg(1 meV) on A -> A + (1)\n}\n`;
+    const a = analyzeDocument(text);
+    expect(a.diagnostics.map((d) => [d.code, text.slice(d.span.start, d.span.end)])).toEqual([["spw-lattice-invalid", "custom"]]);
+    // Read as the cell it encloses: the exchange finds site A, and the model is not cut at the lattice's '}'.
+    expect(a.model?.lattice?.sites.map((x) => x.name)).toEqual(["A"]);
+    expect(a.model?.exchanges).toHaveLength(1);
+    const fixed = applyPreferred(text, "spw-lattice-invalid");
+    expect(fixed).toBe(text.replace("lattice custom {", "lattice {"));
+    expect(codes(fixed)).toEqual([]);
+    // A preset's name before braces: the message offers both readings.
+    const preset = analyzeDocument(text.replace("lattice custom {", "lattice chain {")).diagnostics.find((d) => d.code === "spw-lattice-invalid");
+    expect(preset?.message).toContain("`lattice chain` without the braces");
+    // A cell that does not build is reported once: the sites and the cluster size that lean on it
+    // are not reported again one by one.
+    const broken = codes(text.replace("vector a1 = (1, 0, 0)", "vectors (1, 0, 0)").replace("}\n  exchange", "}\n  cluster (4, 4) periodic\n  exchange"));
+    expect(broken).toContain("spw-lattice-invalid");
+    expect(broken.filter((c) => c === "spw-site-unknown" || c === "spw-cluster-invalid")).toEqual([]);
+    // With the cell built, a size per direction it does not have is reported, in words that fit one direction.
+    const sizes = analyzeDocument(fixed.replace("}\n  exchange", "}\n  cluster (4, 4) periodic\n  exchange")).diagnostics.find((d) => d.code === "spw-cluster-invalid");
+    expect(sizes?.message).toBe("This 1D lattice takes one cluster size, e.g. cluster 8 periodic.");
+  });
+
+  it("writes g = diag(a, b, c) as the tuple the g statement takes", () => {
+    const text = `model "m" {\n  spin 1/2\n  convention antiferro-positive\n  lattice chain sites Cu\n  exchange heisenberg(1 meV) on shell 1\n  g Cu = diag(2, 2, 2.2)\n}\n`;
+    expect(analyzeDocument(text).diagnostics.find((d) => d.code === "spw-expr-forbidden")?.message).toContain("g Cu = (2, 2, 2.2)");
+    const fixed = applyPreferred(text, "spw-expr-forbidden");
+    expect(fixed).toBe(text.replace("diag(2, 2, 2.2)", "(2, 2, 2.2)"));
+    expect(codes(fixed)).toEqual([]);
+    // Not in an exchange, where a tuple is no matrix.
+    expect(fixesFor(text.replace("heisenberg(1 meV)", "matrix(diag(1, 1, 2))").replace("diag(2, 2, 2.2)", "2"), "spw-expr-forbidden")).toEqual([]);
+  });
+
   it("removes a duplicate bond from a bond list", () => {
     const fixed = applyPreferred(CHAIN, "spw-bond-duplicate");
     expect(fixed).toBe(CHAIN.replace("on Cu -> Cu + (2), shell 2", "on Cu -> Cu + (2)"));

@@ -45,7 +45,7 @@ export const DIAGNOSTIC_CODES = {
   "spw-spin-invalid": ["error", "A spin length that is not a positive half-integer."],
   "spw-lattice-missing": ["error", "No lattice statement."],
   "spw-lattice-unknown": ["error", "A lattice preset Spinwright does not know."],
-  "spw-lattice-invalid": ["error", "A custom lattice without sites or with degenerate vectors."],
+  "spw-lattice-invalid": ["error", "A custom lattice with a name before its braces, without sites, or with degenerate vectors."],
   "spw-site-unknown": ["error", "A bond or term names a site the lattice does not have."],
   "spw-offset-dimension": ["error", "A cell offset with a number of components other than the lattice dimension."],
   "spw-offset-noninteger": ["error", "A cell offset that is not a whole number of cells."],

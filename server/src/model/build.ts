@@ -285,6 +285,11 @@ class ModelBuilder {
   private symbols: SymbolOccurrence[] = [];
   private readonly siteIndex = new Map<string, number>();
   private lattice: Lattice | null = null;
+  /**
+   * Set once the lattice is missing or could not be built: its own diagnostic says why, so the
+   * site names that statements after it use are not reported one by one as unknown.
+   */
+  private latticeFailed = false;
 
   /** The events of the parameters being evaluated (innermost last), for the memo. */
   private readonly recording: EvalEvent[][] = [];
@@ -370,6 +375,7 @@ class ModelBuilder {
     const convention = this.buildConvention();
     const sign: 1 | -1 = convention?.value === "ferro-positive" ? -1 : 1;
     this.lattice = this.latticeKeptOrBuilt();
+    this.latticeFailed = this.lattice === null;
     if (fast) this.finishParameters(fast);
     else for (const s of lets) this.parameter(s.name.name);
     if (this.memo) this.memo.parameterPhase = namesClean ? this.parameterPhase(lets, fast) : null;
@@ -829,6 +835,19 @@ class ModelBuilder {
         return { name: named?.name ?? site.name, nameSpan: named?.span ?? null, position: site.position, spin: null };
       });
     } else {
+      if (s.strayName) {
+        const name = s.strayName.name;
+        this.report(
+          diag(
+            "spw-lattice-invalid",
+            s.strayName.span,
+            PRESETS[name]
+              ? `A custom lattice takes no name: remove '${name}' to define the cell in the braces, or write \`lattice ${name}\` without the braces to use the preset.`
+              : `A custom lattice takes no name: write \`lattice {\` and list the cell's vectors and sites inside. Remove '${name}'.`,
+            { data: { removeName: true } },
+          ),
+        );
+      }
       for (const v of s.vectors) {
         const r = this.vector3(v.value, `Lattice vector ${v.name.name}`, true);
         this.symbols.push({ name: v.name.name, kind: "vector", span: v.name.span, isDefinition: true });
@@ -890,6 +909,7 @@ class ModelBuilder {
   private site(ref: NameRef): number | null {
     const idx = this.siteIndex.get(ref.name);
     if (idx === undefined) {
+      if (this.latticeFailed) return null;
       const known = [...this.siteIndex.keys()];
       const suggestion = closest(ref.name, known);
       this.report(
@@ -1337,8 +1357,15 @@ class ModelBuilder {
       this.report(diag("spw-cluster-invalid", s.size.span, "A cluster size counts unit cells: a whole number per lattice direction, e.g. cluster 20 periodic or cluster (6, 6) periodic."));
       return null;
     }
-    if (comps.length !== dim && comps.length !== 1) {
-      this.report(diag("spw-cluster-invalid", s.size.span, `This ${dim}D lattice needs ${dim} cluster sizes, e.g. (${new Array(dim).fill(4).join(", ")}).`));
+    // Without a lattice its dimension is unknown: the lattice's own diagnostic comes first.
+    if (this.lattice && comps.length !== dim && comps.length !== 1) {
+      this.report(
+        diag(
+          "spw-cluster-invalid",
+          s.size.span,
+          dim === 1 ? "This 1D lattice takes one cluster size, e.g. cluster 8 periodic." : `This ${dim}D lattice needs ${dim} cluster sizes, e.g. (${new Array(dim).fill(4).join(", ")}).`,
+        ),
+      );
       return null;
     }
     const cells = comps.length === dim ? comps : new Array<number>(dim).fill(comps[0] ?? 1);

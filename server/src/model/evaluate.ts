@@ -110,15 +110,20 @@ function evalInner(e: Expr, ctx: EvalContext): Value | null {
       if (!v) return null;
       return e.op === "-" ? { ...v, data: v.data.map((x) => -x) } : v;
     }
-    case "call":
+    case "call": {
+      // diag(a, b, c) is how many write a diagonal tensor: say how it is written here.
+      const diagonal = e.callee.name === "diag" && e.args.length === 3;
       ctx.report(
         diag(
           "spw-expr-forbidden",
           e.span,
-          `Function calls such as '${e.callee.name}(...)' are not allowed in values: write numbers, units, parameter names and + - * / ^ only.`,
+          `Function calls such as '${e.callee.name}(...)' are not allowed in values: write numbers, units, parameter names and + - * / ^ only.` +
+            (diagonal ? " A diagonal g-tensor is written as its three entries, e.g. g Cu = (2, 2, 2.2); a diagonal exchange as xyz(Jx, Jy, Jz)." : ""),
+          diagonal ? { data: { tuple: true } } : {},
         ),
       );
       return null;
+    }
     case "tuple":
     case "list": {
       const items = e.items.map((x) => evalInner(x, ctx));

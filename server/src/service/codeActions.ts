@@ -67,6 +67,19 @@ function fixesFor(a: DocumentAnalysis, d: Diagnostic): CodeAction[] {
       const s = statementCovering(a, d.span);
       return s ? [action(d, "Remove the single-ion term (a constant for spin 1/2)", [removeStatement(a, s)], true)] : [];
     }
+    case "spw-lattice-invalid": {
+      if (data["removeName"] !== true) return [];
+      // `lattice custom {` -> `lattice {`: the name and the blanks after it.
+      const after = /^[ \t]*/.exec(a.text.slice(d.span.end))?.[0].length ?? 0;
+      return [action(d, `Remove '${a.text.slice(d.span.start, d.span.end)}' (a custom lattice takes no name)`, [{ span: { start: d.span.start, end: d.span.end + after }, newText: "" }], true)];
+    }
+    case "spw-expr-forbidden": {
+      // g Cu = diag(2, 2, 2.2) -> g Cu = (2, 2, 2.2): the diagonal tensor as the g statement writes it.
+      const s = statementCovering(a, d.span);
+      const call = a.text.slice(d.span.start, d.span.end);
+      if (data["tuple"] !== true || s?.kind !== "g" || !call.startsWith("diag")) return [];
+      return [action(d, `Write the diagonal g-tensor as ${call.slice(4).trim()}`, [{ span: d.span, newText: call.slice(4).trim() }], true)];
+    }
     case "spw-term-zero": {
       const s = statementCovering(a, d.span);
       return s ? [action(d, "Remove the zero exchange term", [removeStatement(a, s)], true)] : [];

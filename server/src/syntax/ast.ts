@@ -35,6 +35,8 @@ export type Statement =
   | {
       readonly kind: "latticeCustom";
       readonly span: Span;
+      /** A name written before the '{' (`lattice custom {`), which a custom cell does not take: reported, then ignored. */
+      readonly strayName?: NameRef;
       readonly vectors: readonly { readonly name: NameRef; readonly value: Expr; readonly span: Span }[];
       readonly sites: readonly { readonly name: NameRef; readonly position: Expr; readonly spin?: Expr; readonly span: Span }[];
     }
@@ -192,6 +194,7 @@ export function forEachSpan(s: Statement, visit: (span: Span) => void): void {
       for (const n of s.siteNames) visit(n.span);
       break;
     case "latticeCustom":
+      if (s.strayName) visit(s.strayName.span);
       for (const v of s.vectors) {
         visit(v.span);
         visit(v.name.span);
@@ -312,6 +315,7 @@ export function copyStatement(s: Statement, delta: number): Statement {
       return {
         kind: "latticeCustom",
         span,
+        ...(s.strayName ? { strayName: copyName(s.strayName, delta) } : {}),
         vectors: s.vectors.map((v) => ({ name: copyName(v.name, delta), value: x(v.value), span: shiftSpan(v.span, delta) })),
         sites: s.sites.map((site) =>
           site.spin

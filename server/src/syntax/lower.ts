@@ -292,7 +292,8 @@ function lowerStatement(n: CstNode, text: string): Statement | undefined {
           if (!name || !position || !sspan) return [];
           return [spin ? { name, position, spin, span: sspan } : { name, position, span: sspan }];
         });
-        return { kind: "latticeCustom", span, vectors, sites };
+        const strayName = nameRef(ident[0]);
+        return strayName ? { kind: "latticeCustom", span, strayName, vectors, sites } : { kind: "latticeCustom", span, vectors, sites };
       }
       const preset = nameRef(ident[0]);
       if (!preset) return undefined;
@@ -443,6 +444,10 @@ export function lowerPiece(cst: CstNode, text: string): { statements: Statement[
 
 const STATEMENT_WORDS = STATEMENT_KEYWORDS.join(", ");
 
+/** What the braces of a custom lattice hold, for messages about what they should not. */
+export const LATTICE_ENTRIES = "A custom lattice holds one entry per line: `vector a1 = (1, 0, 0)` or `site A = (0, 0, 0)` (optionally `spin 1`).";
+
+
 /** "did you mean 'field'? A statement" when the stray text starts with a misspelt statement keyword (three letters or more), else "a statement". */
 function keywordGuess(found: string): string {
   const word = /^[A-Za-z_]\w*/.exec(found)?.[0];
@@ -450,27 +455,44 @@ function keywordGuess(found: string): string {
   return guess && guess !== word ? `did you mean '${guess}'? A statement` : "a statement";
 }
 
-/** One diagnostic per run of stray tokens on a line, saying what a statement starts with. */
+/**
+ * One diagnostic per run of stray tokens on a line, saying what a statement starts with; inside
+ * the braces of a custom lattice whose entries did not parse, what an entry looks like (and its
+ * '}' closes the lattice, no stray).
+ */
 function reportJunk(statements: Statement[], text: string, diagnostics: Diagnostic[]): void {
   let run: Span | null = null;
+  let runInLattice = false;
+  let latticeOpen = false;
   const flush = (): void => {
     if (!run) return;
     const found = text.slice(run.start, run.end);
     diagnostics.push(
-      diag("spw-syntax", run, `Unexpected '${found}': ${keywordGuess(found)} inside the model block starts with one of ${STATEMENT_WORDS}.`),
+      diag(
+        "spw-syntax",
+        run,
+        runInLattice ? `Unexpected '${found}' in the custom lattice. ${LATTICE_ENTRIES}` : `Unexpected '${found}': ${keywordGuess(found)} inside the model block starts with one of ${STATEMENT_WORDS}.`,
+      ),
     );
     run = null;
   };
   for (const s of statements) {
     if (s.kind !== "junk") {
       flush();
+      latticeOpen = s.kind === "latticeCustom" && text[s.span.end - 1] !== "}";
       continue;
     }
-    if (run && !/[\r\n]/.test(text.slice(run.end, s.span.start))) run = { start: run.start, end: s.span.end };
+    if (latticeOpen && text.slice(s.span.start, s.span.end) === "}") {
+      flush();
+      latticeOpen = false;
+      continue;
+    }
+    if (run && runInLattice === latticeOpen && !/[\r\n]/.test(text.slice(run.end, s.span.start))) run = { start: run.start, end: s.span.end };
     else {
       flush();
       // A span of its own: the statement's span moves with the tree (parse.ts), the diagnostic's not.
       run = { start: s.span.start, end: s.span.end };
+      runInLattice = latticeOpen;
     }
   }
   flush();

@@ -122,6 +122,20 @@ describe("parseSpw", () => {
     expect(open.ast.models[0]?.statements.map((s) => s.kind)).toEqual(["latticeCustom", "let"]);
     expect(open.diagnostics.map((d) => d.message)).toEqual(["Expected '}' here, found 'let'. Close the lattice block with '}'."]);
   });
+
+  it("keeps malformed entries of a custom lattice (and a name before its braces) inside the lattice, so its '}' does not end the model", () => {
+    const text = 'model "m" {\n  lattice custom {\n    vectors (1, 0, 0), (0, 5, 0)\n    site A at (0, 0, 0)\n  }\n  let J = 1 K\n  cluster 8 periodic\n}\n';
+    const r = parseSpw(text);
+    const kinds = r.ast.models[0]?.statements.map((s) => s.kind).filter((k) => k !== "junk");
+    expect(kinds).toEqual(["latticeCustom", "let", "cluster"]);
+    expect(r.ast.models[0]?.closeSpan?.start).toBe(text.lastIndexOf("}"));
+    const messages = r.diagnostics.map((d) => d.message);
+    expect(messages.filter((m) => m.includes("outside the model block") || m.includes("inside the model block"))).toEqual([]);
+    // One message a malformed line, saying what an entry looks like; the lattice's own '}' is no stray.
+    const entries = r.diagnostics.filter((d) => d.message.includes("in the custom lattice"));
+    expect(entries.map((d) => text.slice(d.span.start, d.span.end))).toEqual(["vectors (1, 0, 0), (0, 5, 0)", "site A at (0, 0, 0)"]);
+    expect(entries[0]?.message).toContain("`vector a1 = (1, 0, 0)` or `site A = (0, 0, 0)`");
+  });
 });
 
 describe("a misspelt statement keyword", () => {

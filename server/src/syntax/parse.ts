@@ -9,8 +9,8 @@ import type { IToken, TokenType } from "chevrotain";
 import { diag, type Diagnostic } from "../base/diagnostics";
 import type { Span } from "../base/text";
 import { copyStatement, forEachSpan, shiftSpan, type ModelBlock, type NameRef, type SpwFile, type Statement } from "./ast";
-import { Identifier, Kw, LBrace, NumberLiteral, RBrace, StringLiteral } from "./lexer";
-import { lowerPiece } from "./lower";
+import { Identifier, Kw, LBrace, NumberLiteral, RBrace, STATEMENT_KEYWORDS, StringLiteral } from "./lexer";
+import { LATTICE_ENTRIES, lowerPiece } from "./lower";
 import { spwParser, STATEMENT_STARTS } from "./parser";
 import { COMMENT, END, ERROR, Scanner, scanText, SpwToken, type ScanResult } from "./scanner";
 
@@ -389,8 +389,8 @@ class SpwParse implements ParsedFile {
   /**
    * Reads the block structure and cuts the text into pieces: `model`, a quoted name, `{`, the
    * statements, `}`. Inside a block a piece starts at every statement keyword, except `spin`
-   * inside the braces of a custom lattice (`site A = (0, 0, 0) spin 1`), where only `}` or another
-   * statement keyword ends the lattice. A '}' followed by more code on its own line is a stray
+   * inside the braces of a custom lattice (`site A = (0, 0, 0) spin 1`, also after a stray name,
+   * `lattice custom {`), where only `}` or another statement keyword ends the lattice. A '}' followed by more code on its own line is a stray
    * (`exchange }heisenberg(J)`), not the end of the block. What is missing is reported, and
    * reading goes on as if it were there. After an edit, reading starts at `resume` and stops where
    * a piece starts at the place of an old piece, after the edit, in the same state: from there on
@@ -579,7 +579,9 @@ class SpwParse implements ParsedFile {
         if (linedUp) return;
         b.pieces.push(piece);
       } else if (afterLatticeKeyword && type === LBrace) state = "lattice";
-      afterLatticeKeyword = type === Kw.lattice;
+      // Up to its '{', a lattice statement may hold a stray name (`lattice custom {`): the braces
+      // still enclose the cell, so that their '}' does not end the model.
+      afterLatticeKeyword = type === Kw.lattice || (afterLatticeKeyword && type !== LBrace && type !== RBrace && !STATEMENT_START_SET.has(type));
       lastStart = start;
       lastEnd = end;
       lastLine = line;
@@ -848,8 +850,11 @@ function syntaxMessage(raw: string, found: string): string {
   if (expecting?.[1]) {
     if (expecting[1] === "'='" && found === "'('")
       return "Function definitions are not allowed: a parameter is a value, e.g. let J2 = 0.2 * J1.";
-    // Inside a statement piece the only '}' the grammar expects closes a custom lattice.
-    const hint = expecting[1] === "'}'" ? " Close the lattice block with '}'." : "";
+    // Inside a statement piece the only '}' the grammar expects closes a custom lattice: before
+    // the next statement it was left open; before anything else an entry is malformed.
+    const word = /^'(\w+)'$/.exec(found)?.[1];
+    const nextStatement = found === "the end of the file" || (word !== undefined && (STATEMENT_KEYWORDS as readonly string[]).includes(word));
+    const hint = expecting[1] !== "'}'" ? "" : nextStatement ? " Close the lattice block with '}'." : ` ${LATTICE_ENTRIES}`;
     return `Expected ${expecting[1]} here, found ${found}.${hint}`;
   }
   const oneOf = /Expecting: (?:one of these possible Token sequences:|expecting at least one iteration which starts with one of these possible Token sequences::)?\s*([\s\S]*?)\s*but found:/.exec(raw);

@@ -105,6 +105,21 @@ class SpwParser extends CstParser {
     this.CONSUME(Kw.lattice);
     this.OR(this.alternatives[3] ??= [
       {
+        // A custom cell. A name before its '{' (`lattice custom {`) is read so that the cell
+        // still parses; the builder reports it.
+        ALT: () => {
+          this.OPTION2(() => this.CONSUME4(Identifier));
+          this.CONSUME(LBrace);
+          this.MANY2(() => {
+            this.OR2([
+              { ALT: () => this.SUBRULE(this.vectorStmt) },
+              { ALT: () => this.SUBRULE(this.siteStmt) },
+            ]);
+          });
+          this.CONSUME(RBrace);
+        },
+      },
+      {
         ALT: () => {
           this.CONSUME(Identifier);
           this.OPTION(() => {
@@ -115,18 +130,6 @@ class SpwParser extends CstParser {
               this.CONSUME3(Identifier);
             });
           });
-        },
-      },
-      {
-        ALT: () => {
-          this.CONSUME(LBrace);
-          this.MANY2(() => {
-            this.OR2([
-              { ALT: () => this.SUBRULE(this.vectorStmt) },
-              { ALT: () => this.SUBRULE(this.siteStmt) },
-            ]);
-          });
-          this.CONSUME(RBrace);
         },
       },
     ]);
