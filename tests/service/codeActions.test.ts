@@ -84,6 +84,33 @@ describe("code actions", () => {
     expect(sizes?.message).toBe("This 1D lattice takes one cluster size, e.g. cluster 8 periodic.");
   });
 
+  it("turns the spellings of print and speech into .spw's, one fix each", () => {
+    const clean = `model "m" {\n  spin 1/2\n  convention antiferro-positive\n  lattice chain sites Cu\n  let J = 10 K\n  exchange heisenberg(J) on shell 1\n  field 5 T along (0, 0, 1)\n  expect su2\n}\n`;
+    expect(codes(clean)).toEqual([]);
+    const cases: [string, string, DiagnosticCode][] = [
+      ["convention antiferro-positive", "convention afm", "spw-convention-unknown"],
+      ["convention antiferro-positive", "convention ferro-positive", "spw-convention-unknown"],
+      ["10 K", "10 kelvin", "spw-unit-unknown"],
+      ["5 T", "5 Tesla", "spw-unit-unknown"],
+      ["heisenberg(J) on", "J on", "spw-kind-unknown"],
+      ["along (0, 0, 1)", "along z", "spw-name-unknown"],
+      ["expect su2", "expect SU(2)", "spw-expect-unknown"],
+    ];
+    for (const [right, wrong, code] of cases) {
+      // ferro-positive is no mistake: only the short form 'fm' is, and it is fixed back to it.
+      const broken = wrong === "convention ferro-positive" ? clean.replace(right, "convention fm") : clean.replace(right, wrong);
+      const fixed = applyPreferred(broken, code);
+      expect(fixed).toBe(wrong === "convention ferro-positive" ? clean.replace(right, wrong) : clean);
+      // One message for one mistake: `exchange J on` and `SU(2)` no longer leave stray tokens behind.
+      expect(codes(broken).filter((c) => c !== "spw-expect-mismatch")).toEqual([code]);
+    }
+    // A parameter named z is a direction like any other name, not the axis.
+    expect(codes(clean.replace("let J = 10 K", "let J = 10 K\n  let z = (0, 1, 0)").replace("along (0, 0, 1)", "along z"))).not.toContain("spw-name-unknown");
+    // Bare numbers after a g value: the tuple is spelt out.
+    const g = analyzeDocument(clean.replace("  expect su2", "  g Cu = 2.0 2.0 2.2\n  expect su2")).diagnostics.find((d) => d.code === "spw-syntax");
+    expect(g?.message).toBe("Unexpected '2.0 2.2': a g-tensor given by its principal values is a tuple, g Cu = (2.0, 2.0, 2.2).");
+  });
+
   it("writes g = diag(a, b, c) as the tuple the g statement takes", () => {
     const text = `model "m" {\n  spin 1/2\n  convention antiferro-positive\n  lattice chain sites Cu\n  exchange heisenberg(1 meV) on shell 1\n  g Cu = diag(2, 2, 2.2)\n}\n`;
     expect(analyzeDocument(text).diagnostics.find((d) => d.code === "spw-expr-forbidden")?.message).toContain("g Cu = (2, 2, 2.2)");

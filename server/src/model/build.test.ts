@@ -178,6 +178,15 @@ describe("an unknown unit", () => {
   it("is named with the unit it resembles: letter case first, then spelling", () => {
     expect(message("1 mev")).toBe("Unknown unit 'mev'; did you mean meV? Energies take meV, ueV, eV, joule, K, mK, MHz, GHz, THz, cm^-1; fields take T, mT, G.");
     expect(message("1 Ghz")).toContain("did you mean GHz?");
-    expect(message("1 tesla")).toBe("Unknown unit 'tesla'. Energies take meV, ueV, eV, joule, K, mK, MHz, GHz, THz, cm^-1; fields take T, mT, G.");
+    expect(message("1 tesla")).toBe("Unknown unit 'tesla'; did you mean T? Energies take meV, ueV, eV, joule, K, mK, MHz, GHz, THz, cm^-1; fields take T, mT, G.");
+  });
+
+  it("written out in words is named by its symbol", () => {
+    expect(message("10 kelvin")).toContain("did you mean K?");
+    expect(message("10 Kelvins")).toContain("did you mean K?");
+    expect(message("5 gauss")).toContain("did you mean G?");
+    expect(message("3 gigahertz")).toContain("did you mean GHz?");
+    // A word that is no unit gets no guess from the table.
+    expect(message("3 kelvinish")).not.toContain("did you mean K?");
   });
 });

@@ -158,6 +158,9 @@ function readsOf(e: ParamEvaluation | undefined): string[] {
   return out;
 }
 
+/** The Cartesian axes by name, as the vectors a direction is written with. */
+const AXIS_VECTORS: Readonly<Record<string, string>> = { x: "(1, 0, 0)", y: "(0, 1, 0)", z: "(0, 0, 1)" };
+
 /** Edited `let` statements beyond which a build evaluates every parameter again. */
 const MAX_CHANGED_LETS = 16;
 
@@ -707,6 +710,12 @@ class ModelBuilder {
 
   /** A dimensionless 3-vector (directions, positions); null after reporting. */
   private vector3(e: Expr, what: string, requireNonZero: boolean): Vec3 | null {
+    // `along z`: an axis named where a direction goes (unless a parameter has that name).
+    const axis = requireNonZero && e.kind === "name" && !this.params.has(e.name) ? AXIS_VECTORS[e.name] : undefined;
+    if (axis && e.kind === "name") {
+      this.report(diag("spw-name-unknown", e.span, `Unknown name '${e.name}'. ${what} is a vector: for the ${e.name} axis write ${axis}.`, { data: { name: e.name, suggestions: [axis] } }));
+      return null;
+    }
     const v = this.eval(e);
     if (!v) return null;
     if (v.energy !== 0 || v.field !== 0) {
@@ -747,6 +756,12 @@ class ModelBuilder {
         "spw-convention-unknown",
         s.value.span,
         `Unknown convention '${v}': write antiferro-positive (H = +J S_i.S_j) or ferro-positive (H = -J S_i.S_j).`,
+        // The usual short names say which sign of J they call positive.
+        /^(afm?|antiferro|antiferromagnetic)$/i.test(v)
+          ? { data: { suggestions: ["antiferro-positive"] } }
+          : /^(fm?|ferro|ferromagnetic)$/i.test(v)
+            ? { data: { suggestions: ["ferro-positive"] } }
+            : {},
       ),
     );
     return null;
@@ -1026,6 +1041,18 @@ class ModelBuilder {
     seen: Map<string, { span: Span; kind: ExchangeKind; reversed: boolean }>,
   ): { kind: ExchangeKind; written: { matrix: Mat3; scale: number }; bonds: Bond[]; requests: BondRequest[] | null } | null {
     const kindName = s.exchangeKind.name;
+    if (s.args.length === 0 && !(EXCHANGE_KINDS as readonly string[]).includes(kindName) && this.paramStatements.has(kindName)) {
+      // `exchange J on ...`: the coupling written where its kind goes.
+      this.report(
+        diag(
+          "spw-kind-unknown",
+          s.exchangeKind.span,
+          `'${kindName}' is a parameter, not an exchange kind: write exchange heisenberg(${kindName}) for an isotropic coupling, or another kind with ${kindName} as its first argument.`,
+          { data: { name: kindName, suggestions: [`heisenberg(${kindName})`], wrap: true } },
+        ),
+      );
+      return null;
+    }
     if (!(EXCHANGE_KINDS as readonly string[]).includes(kindName)) {
       const suggestions = closest(kindName, [...EXCHANGE_KINDS]);
       this.report(
@@ -1395,7 +1422,18 @@ class ModelBuilder {
   private expectOf(s: Extract<Statement, { kind: "expect" }>): ExpectSpec | null {
     const c = s.claim.name;
     if (c !== "su2" && c !== "u1" && c !== "none") {
-      this.report(diag("spw-expect-unknown", s.claim.span, `Unknown symmetry '${c}': write expect su2, expect u1 about (x, y, z), or expect none.`));
+      // SU(2), U(1), SU2, None as printed: the claim meant, in .spw's spelling.
+      const meant = { "su(2)": "su2", "u(1)": "u1", su2: "su2", u1: "u1", none: "none" }[c.toLowerCase().replace(/\s+/g, "")];
+      this.report(
+        diag(
+          "spw-expect-unknown",
+          s.claim.span,
+          meant
+            ? `Write the symmetry as .spw spells it: expect ${meant === "u1" ? "u1 about (x, y, z)" : meant}.`
+            : `Unknown symmetry '${c}': write expect su2, expect u1 about (x, y, z), or expect none.`,
+          meant ? { data: { suggestions: [meant] } } : {},
+        ),
+      );
       return null;
     }
     let axis: Vec3 | null = null;

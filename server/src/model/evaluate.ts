@@ -6,7 +6,7 @@ import { closest } from "../base/words";
 import { diag, type Diagnostic } from "../base/diagnostics";
 import type { Span } from "../base/text";
 import type { Expr } from "../syntax/ast";
-import { unitKey, ENERGY_UNIT_NAMES, FIELD_UNIT_NAMES, unitInfo, constantNamed } from "./units";
+import { unitKey, ENERGY_UNIT_NAMES, FIELD_UNIT_NAMES, unitInfo, constantNamed, unitSymbolForWord } from "./units";
 
 /** A value with one dimension for all its components: meV^energy T^field. */
 export interface Value {
@@ -237,6 +237,6 @@ function conversionHint(a: Value, b: Value): string {
 
 /** "; did you mean meV?" for a unit spelled another way (closest ignores letter case, so "mev" is at distance 0), else ".". */
 function unitGuess(key: string): string {
-  const guess = closest(key, [...ENERGY_UNIT_NAMES, ...FIELD_UNIT_NAMES])[0];
+  const guess = unitSymbolForWord(key) ?? closest(key, [...ENERGY_UNIT_NAMES, ...FIELD_UNIT_NAMES])[0];
   return guess ? `; did you mean ${guess}?` : ".";
 }

@@ -94,6 +94,27 @@ export const FIELD_UNIT_NAMES = Object.entries(UNITS)
   .filter(([, u]) => u.dimension === "field")
   .map(([k]) => k);
 
+/** Units spelt out in words (any letter case, singular or plural), to the symbols .spw takes. */
+const SPELT_OUT: Readonly<Record<string, string>> = {
+  kelvin: "K",
+  millikelvin: "mK",
+  tesla: "T",
+  millitesla: "mT",
+  gauss: "G",
+  electronvolt: "eV",
+  millielectronvolt: "meV",
+  microelectronvolt: "ueV",
+  megahertz: "MHz",
+  gigahertz: "GHz",
+  terahertz: "THz",
+};
+
+/** The symbol of a unit written out in words (`kelvin` -> K, `Tesla` -> T), if it is one. */
+export function unitSymbolForWord(word: string): string | undefined {
+  const w = word.toLowerCase();
+  return SPELT_OUT[w] ?? (w.endsWith("s") ? SPELT_OUT[w.slice(0, -1)] : undefined);
+}
+
 /** Names that denote units and so cannot name parameters. */
 export const UNIT_WORDS = new Set(["meV", "ueV", "eV", "joule", "K", "mK", "MHz", "GHz", "THz", "cm", "T", "mT", "G"]);
 

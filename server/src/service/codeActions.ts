@@ -6,7 +6,7 @@ import type { DocumentAnalysis } from "../analysis/analyze";
 import type { Diagnostic } from "../base/diagnostics";
 import type { Span } from "../base/text";
 import { closest } from "../base/words";
-import { CONSTANTS, ENERGY_UNIT_NAMES, UNITS, unitInfo } from "../model/units";
+import { CONSTANTS, ENERGY_UNIT_NAMES, UNITS, unitInfo, unitSymbolForWord } from "../model/units";
 import { statementExprs, walkExpr, type Expr, type Statement } from "../syntax/ast";
 import { firstModel, type TextEdit } from "./common";
 
@@ -114,10 +114,16 @@ function fixesFor(a: DocumentAnalysis, d: Diagnostic): CodeAction[] {
       // Where the statement fixes the dimension, only units of that dimension: a field unit in a
       // coupling would trade this error for a unit mismatch.
       const needed = neededDimension(statementCovering(a, d.span));
-      return replaceWith(closest(unit, Object.keys(UNITS).filter((u) => !needed || UNITS[u]?.dimension === needed)), "unit");
+      const fitting = Object.keys(UNITS).filter((u) => !needed || UNITS[u]?.dimension === needed);
+      const spelt = unitSymbolForWord(unit);
+      return replaceWith(spelt && fitting.includes(spelt) ? [spelt] : closest(unit, fitting), "unit");
     }
-    case "spw-convention-unknown":
-      return replaceWith(closest(a.text.slice(d.span.start, d.span.end), ["antiferro-positive", "ferro-positive"]), "convention");
+    case "spw-expect-unknown":
+      return replaceWith(stringList(data["suggestions"]), "symmetry");
+    case "spw-convention-unknown": {
+      const given = stringList(data["suggestions"]);
+      return replaceWith(given.length > 0 ? given : closest(a.text.slice(d.span.start, d.span.end), ["antiferro-positive", "ferro-positive"]), "convention");
+    }
     case "spw-unit-missing":
       return addUnitFixes(a, d);
     case "spw-expect-mismatch":

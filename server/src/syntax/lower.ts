@@ -390,8 +390,12 @@ function lowerStatement(n: CstNode, text: string): Statement | undefined {
       return value ? { kind: "probe", span, value } : undefined;
     }
     case "expectStmt": {
-      const claim = nameRef(ident[0]);
-      if (!claim) return undefined;
+      const written = nameRef(ident[0]);
+      if (!written) return undefined;
+      // `U(1)` is one claim as written, name and group index together.
+      const number = tokens(c, "NumberLiteral")[0];
+      const rp = tokens(c, "RParen")[0];
+      const claim = number && rp ? { name: `${written.name}(${number.image})`, span: { start: written.span.start, end: rp.startOffset + 1 } } : written;
       const axis = exprOf(c);
       return axis ? { kind: "expect", span, claim, axis } : { kind: "expect", span, claim };
     }
@@ -464,14 +468,22 @@ function reportJunk(statements: Statement[], text: string, diagnostics: Diagnost
   let run: Span | null = null;
   let runInLattice = false;
   let latticeOpen = false;
+  // The statement before the run, when the run goes on its line.
+  let before: Statement | null = null;
+  let runAfter: Statement | null = null;
   const flush = (): void => {
     if (!run) return;
     const found = text.slice(run.start, run.end);
+    const tuple = gTuple(runAfter, found, text);
     diagnostics.push(
       diag(
         "spw-syntax",
         run,
-        runInLattice ? `Unexpected '${found}' in the custom lattice. ${LATTICE_ENTRIES}` : `Unexpected '${found}': ${keywordGuess(found)} inside the model block starts with one of ${STATEMENT_WORDS}.`,
+        runInLattice
+          ? `Unexpected '${found}' in the custom lattice. ${LATTICE_ENTRIES}`
+          : tuple
+            ? `Unexpected '${found}': a g-tensor given by its principal values is a tuple, ${tuple}.`
+            : `Unexpected '${found}': ${keywordGuess(found)} inside the model block starts with one of ${STATEMENT_WORDS}.`,
       ),
     );
     run = null;
@@ -480,6 +492,7 @@ function reportJunk(statements: Statement[], text: string, diagnostics: Diagnost
     if (s.kind !== "junk") {
       flush();
       latticeOpen = s.kind === "latticeCustom" && text[s.span.end - 1] !== "}";
+      before = s;
       continue;
     }
     if (latticeOpen && text.slice(s.span.start, s.span.end) === "}") {
@@ -493,7 +506,16 @@ function reportJunk(statements: Statement[], text: string, diagnostics: Diagnost
       // A span of its own: the statement's span moves with the tree (parse.ts), the diagnostic's not.
       run = { start: s.span.start, end: s.span.end };
       runInLattice = latticeOpen;
+      runAfter = before && !/[\r\n]/.test(text.slice(before.span.end, s.span.start)) ? before : null;
     }
+    before = null;
   }
   flush();
+}
+
+/** `g Cu = (2, 2, 2.2)` for `g Cu = 2 2 2.2` (a g statement followed on its line by bare numbers), else null. */
+function gTuple(statement: Statement | null, found: string, text: string): string | null {
+  if (statement?.kind !== "g" || statement.value.kind !== "number" || !/^[0-9.eE+-]+(\s+[0-9.eE+-]+)*$/.test(found)) return null;
+  const values = [text.slice(statement.value.span.start, statement.value.span.end), ...found.split(/\s+/)];
+  return values.length === 3 ? `g ${statement.site.name} = (${values.join(", ")})` : null;
 }

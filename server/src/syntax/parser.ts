@@ -163,9 +163,13 @@ class SpwParser extends CstParser {
   private exchangeStmt = this.RULE("exchangeStmt", () => {
     this.CONSUME(Kw.exchange);
     this.CONSUME(Identifier);
-    this.CONSUME(LParen);
-    this.OPTION(() => this.SUBRULE(this.argList));
-    this.CONSUME(RParen);
+    // The arguments in parentheses; without them (`exchange J on ...`) the statement still reads
+    // to its bonds, and the builder says what is missing.
+    this.OPTION2(() => {
+      this.CONSUME(LParen);
+      this.OPTION(() => this.SUBRULE(this.argList));
+      this.CONSUME(RParen);
+    });
     this.CONSUME(Kw.on);
     this.SUBRULE(this.bondSpec);
     this.MANY(() => {
@@ -268,6 +272,12 @@ class SpwParser extends CstParser {
   private expectStmt = this.RULE("expectStmt", () => {
     this.CONSUME(Kw.expect);
     this.CONSUME(Identifier);
+    // `U(1)`, `SU(2)` as in print: read whole, so that the builder can say how .spw spells them.
+    this.OPTION2(() => {
+      this.CONSUME(LParen);
+      this.CONSUME(NumberLiteral);
+      this.CONSUME(RParen);
+    });
     this.OPTION(() => {
       this.CONSUME(Kw.about);
       this.SUBRULE(this.expr);
