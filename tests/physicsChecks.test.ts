@@ -221,6 +221,29 @@ describe("conventions and frustration", () => {
     expect(chain("1 meV", "-0.3 meV")[0]?.frustrated).toBe(false);
   });
 
+  it("counts the cycles of each kind per unit cell (derivable by hand on each lattice)", () => {
+    const perCell = (body: string, lattice: string) =>
+      Object.fromEntries(analyze(body, `spin 1/2\n convention antiferro-positive\n lattice ${lattice}`).p.frustration.map((g) => [g.cycle, [g.perCell, g.complete]]));
+    // Chain J1-J2: one triangle (i, i+1, i+2) per site.
+    expect(Object.values(perCell(` exchange heisenberg(1 meV) on shell 1\n exchange heisenberg(0.3 meV) on shell 2`, "chain sites Cu"))).toEqual([[1, true]]);
+    // Triangular: two nearest-neighbour triangles per site (up and down); with J2 (distance sqrt 3),
+    // each of the 3 J2 bonds per site closes two J1-J1-J2 triangles (6 per site), and the J2 bonds
+    // form triangles of their own, again 2 per site.
+    expect(perCell(` let J1 = 1 meV\n let J2 = 0.1 meV\n exchange heisenberg(J1) on shell 1\n exchange heisenberg(J2) on shell 2`, "triangular")).toEqual({
+      "triangle J1-J1-J1": [2, true],
+      "triangle J1-J1-J2": [6, true],
+      "triangle J2-J2-J2": [2, true],
+    });
+    // Kagome: three sites per cell, one up and one down triangle per cell.
+    expect(perCell(` let J = 1 meV\n exchange heisenberg(J) on shell 1`, "kagome")).toEqual({ "triangle J-J-J": [2, true] });
+    // A chain with second-neighbour exchange alone (the first-neighbour DM term has no isotropic
+    // part) is two decoupled chains: no loop at all, only rings the periodic cluster closes.
+    expect(perCell(` exchange dm(0.3 meV, (0, 0, 1)) on shell 1\n exchange heisenberg(1 meV) on shell 2`, "chain sites Cu")).toEqual({});
+    // Square lattice with first and second neighbours: each diagonal closes two J1-J1-J2
+    // triangles, and there are two diagonals per cell (4 per cell).
+    expect(perCell(` let J1 = 1 meV\n let J2 = 0.3 meV\n exchange heisenberg(J1) on shell 1\n exchange heisenberg(J2) on shell 2`, "square")).toEqual({ "triangle J1-J1-J2": [4, true] });
+  });
+
   it("two terms on one bond count by their sum: the sign of the sum, not of each term, decides (derivable)", () => {
     // J2 written as an AF heisenberg term plus an F isotropic xxz term on the same second-neighbour
     // bond: the bond is AF when the sum is positive. Both files give each term the same sign, so

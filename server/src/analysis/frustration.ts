@@ -5,7 +5,9 @@ import { buildFiniteCluster } from "../model/cluster";
 import { bondKeyOf } from "../model/lattice";
 import type { ExchangeTerm, SpinModel } from "../model/model";
 import { shortestCycles, type CycleEdge } from "../physics/cycles";
+import { cross3, dot3, normalize3 } from "../physics/linalg3";
 import { decomposeExchange } from "../physics/symmetry";
+import type { Vec3 } from "../physics/types";
 import { termLabel } from "./couplings";
 
 export interface FrustrationGroup {
@@ -14,7 +16,13 @@ export interface FrustrationGroup {
   readonly length: number;
   readonly couplings: readonly string[];
   readonly frustrated: boolean | null;
-  readonly count: number;
+  /**
+   * Cycles of this kind per unit cell of the lattice (counted on a periodic cluster of whole cells
+   * larger than the cycles, then divided by its cells): 2 for the triangles of a triangular lattice.
+   */
+  readonly perCell: number;
+  /** False when the search stopped at its work limit: perCell is then a lower bound. */
+  readonly complete: boolean;
   /** Exchange terms on the cycle (indices into model.exchanges). */
   readonly terms: readonly number[];
 }
@@ -63,6 +71,11 @@ function sameSigns(a: readonly BondSign[], b: readonly BondSign[]): boolean {
  * isotropic coupling on each bond (two terms on one bond count by their sum): cached on that
  * fingerprint, and on the very lattice and term objects of the last call.
  */
+/** "2 per cell", or "at least 2 per cell" when the search was cut short. */
+export function perCellText(g: FrustrationGroup): string {
+  return `${g.complete ? "" : "at least "}${Number(g.perCell.toFixed(3))} per cell`;
+}
+
 export function analyzeFrustration(model: SpinModel): FrustrationGroup[] {
   const L = model.lattice;
   if (!L || model.exchanges.length === 0) return [];
@@ -135,9 +148,11 @@ function computeFrustration(model: SpinModel): FrustrationGroup[] {
   }
   const result = shortestCycles({ vertexCount: cluster.spins.length, edges }, { maxCycles: 2000, maxWork: 5e6 });
   const groups = new Map<string, { couplings: string[]; length: number; frustrated: boolean | null; count: number; terms: Set<number> }>();
+  const frac = fractional(cluster.positions, L.vectors);
   for (const c of result.cycles) {
-    // Cycles that wind around the periodic cluster are artefacts of its size, not lattice loops.
-    if (c.vertices.length > 8 || c.vertices.length >= side) continue;
+    // Cycles that wind around the periodic cluster are artefacts of its size, not lattice loops
+    // (e.g. the second-neighbour bonds alone of a chain, closed into a ring by the cluster).
+    if (c.vertices.length > 8 || winds(c.vertices, frac, side)) continue;
     const terms = c.edgeIds.flatMap((id) => edgeTerms.get(id) ?? []);
     // A bond several terms sum on reads "(J1 + dm #3)", so that "-" only ever separates bonds.
     const names = c.edgeIds.map((id) => bondLabel(model, edgeTerms.get(id) ?? [])).sort();
@@ -147,14 +162,54 @@ function computeFrustration(model: SpinModel): FrustrationGroup[] {
     terms.forEach((t) => g.terms.add(t));
     groups.set(key, g);
   }
+  const cells = side ** L.dimension;
   return [...groups.values()].map((g) => ({
     cycle: `${CYCLE_NAMES[g.length] ?? `${g.length}-cycle`} ${g.couplings.join("-")}`,
     length: g.length,
     couplings: g.couplings,
     frustrated: g.frustrated,
-    count: g.count,
+    perCell: g.count / cells,
+    complete: !result.truncated,
     terms: [...g.terms],
   }));
+}
+
+/**
+ * Fractional coordinates of points along the lattice vectors (1 to 3 of them, completed to a basis
+ * with unit normals for the inverse; only the lattice components are returned).
+ */
+function fractional(points: readonly Vec3[], vectors: readonly Vec3[]): number[][] {
+  const basis: Vec3[] = [...vectors];
+  if (basis.length === 1) {
+    const a = basis[0] as Vec3;
+    const other: Vec3 = Math.abs(a[0]) <= Math.abs(a[1]) && Math.abs(a[0]) <= Math.abs(a[2]) ? [1, 0, 0] : Math.abs(a[1]) <= Math.abs(a[2]) ? [0, 1, 0] : [0, 0, 1];
+    const n1 = normalize3(cross3(a, other)) as Vec3;
+    basis.push(n1, normalize3(cross3(a, n1)) as Vec3);
+  } else if (basis.length === 2) basis.push(normalize3(cross3(basis[0] as Vec3, basis[1] as Vec3)) as Vec3);
+  const [a, b, c] = basis as [Vec3, Vec3, Vec3];
+  const ra = cross3(b, c);
+  const rb = cross3(c, a);
+  const rc = cross3(a, b);
+  const det = dot3(a, ra);
+  return points.map((p) => [dot3(ra, p) / det, dot3(rb, p) / det, dot3(rc, p) / det].slice(0, vectors.length));
+}
+
+/**
+ * Whether a cycle of the periodic cluster (side cells along each lattice vector) winds around it:
+ * each step taken as its shortest image (bonds span fewer than side / 2 cells), the steps of a
+ * lattice loop add up to zero and those of a winding cycle to a multiple of the side.
+ */
+function winds(vertices: readonly number[], frac: readonly (readonly number[])[], side: number): boolean {
+  const dim = frac[0]?.length ?? 0;
+  for (let d = 0; d < dim; d++) {
+    let sum = 0;
+    for (let k = 0; k < vertices.length; k++) {
+      const x = (frac[vertices[(k + 1) % vertices.length] as number]?.[d] ?? 0) - (frac[vertices[k] as number]?.[d] ?? 0);
+      sum += x - side * Math.round(x / side);
+    }
+    if (Math.abs(sum) > 1e-6) return true;
+  }
+  return false;
 }
 
 function bondLabel(model: SpinModel, terms: readonly number[]): string {

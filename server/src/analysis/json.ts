@@ -40,7 +40,7 @@ export function analysisJson(file: string, a: DocumentAnalysis): Record<string, 
         anisotropicMeV: round(c.anisotropicMeV),
         shells: c.shells,
       })) ?? [],
-    frustration: p?.frustration.map((f) => ({ cycle: f.cycle, frustrated: f.frustrated, count: f.count })) ?? [],
+    frustration: p?.frustration.map((f) => ({ cycle: f.cycle, frustrated: f.frustrated, perCell: f.perCell, complete: f.complete })) ?? [],
     region: p?.family.placement
       ? {
           family: p.family.placement.family,

@@ -3,6 +3,7 @@
 // sites, presets, units and keywords; the physics summary on the model name. Service layer.
 import type { DocumentAnalysis } from "../analysis/analyze";
 import { termLabel } from "../analysis/couplings";
+import { perCellText } from "../analysis/frustration";
 import type { Span } from "../base/text";
 import { describeBond } from "../model/build";
 import { PRESETS } from "../model/lattice";
@@ -117,7 +118,7 @@ function termPhysics(a: DocumentAnalysis, index: number): string[] {
     const lines = cycles.map((g) => {
       const share = g.couplings.filter((edge) => edge.split("+").includes(label)).length;
       const state = g.frustrated === true ? "frustrated" : g.frustrated === false ? "not frustrated" : "frustration undecided";
-      return `- ${g.cycle} (${g.count} per cluster, ${state}): ${share} of its ${g.length} bonds`;
+      return `- ${g.cycle} (${perCellText(g)}, ${state}): ${share} of its ${g.length} bonds`;
     });
     out.push(`In the shortest cycles:\n${lines.join("\n")}`);
   }

@@ -3,6 +3,7 @@
 // the q = 0 resonance. The summary is still growing, so every field is read with optional
 // chaining and keys this file does not know yet are shown from their text fields. Service layer.
 import type { DocumentAnalysis } from "../analysis/analyze";
+import { perCellText } from "../analysis/frustration";
 import type { RegionPlacement } from "../physics/regions";
 import type { Vec3 } from "../physics/types";
 import { predictionLines } from "./predictionsView";
@@ -60,7 +61,7 @@ export function physicsItems(a: DocumentAnalysis): PhysicsItem[] {
       ),
     });
   const frustrated = (p.frustration ?? []).filter((g) => g?.frustrated);
-  if (frustrated.length > 0) items.push({ title: "Frustration", lines: frustrated.map((g) => `${g.cycle} (${g.count} per cluster)`) });
+  if (frustrated.length > 0) items.push({ title: "Frustration", lines: frustrated.map((g) => `${g.cycle} (${perCellText(g)})`) });
   const family = p.family;
   if (family?.description) {
     const lines = [family.description];
