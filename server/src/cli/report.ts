@@ -89,7 +89,7 @@ function physicsLines(a: DocumentAnalysis): string[] {
     out.push(`family: ${p.family.description}; region: ${r.name} at ${r.parameter} = ${fmt(r.value)}`);
     const boundary = boundaryText(r);
     if (boundary) out.push(`  ${boundary}`);
-    if (r.quantum) out.push(`  quantum picture: ${r.quantum.name} (${r.quantum.source})`);
+    if (r.quantum) out.push(`  quantum picture: ${r.quantum.name.replace(/ \(quantum\)$/, "")}; ${r.quantum.source}`);
   } else out.push(`family: ${p.family.description}`);
   const z = p.resonance;
   if (z.zeemanMeV !== null && z.hasField)

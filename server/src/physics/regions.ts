@@ -124,7 +124,7 @@ const WHITE_HUSE = "White & Huse, Phys. Rev. B 48, 3844 (1993)";
  * yet (house rule on names); the lead engineer should add the full citation after checking it.
  */
 const SPIN1_DC = "arXiv:1705.01558 (2017), DMRG level spectroscopy; value checked against the abstract only";
-const NOTES_2D = "quantum ranges as commonly quoted in the literature (from memory, debated; not checked against a single source)";
+const NOTES_2D = "ranges as commonly quoted in the literature; from memory, debated, not checked against a single source";
 const LUTTINGER_TISZA = "classical energy minimum over wave vectors (Luttinger-Tisza), derivable";
 
 const exact = (name: string, value: number, source: string): RegionBoundary => ({ name, value, source, uncertainty: 0 });

@@ -69,7 +69,8 @@ export function physicsItems(a: DocumentAnalysis): PhysicsItem[] {
     if (place) lines.push(`${place.parameter} = ${formatNumber(place.value)}: ${place.name}${place.source ? ` (${place.source})` : ""}`);
     const boundary = place ? boundaryText(place) : null;
     if (boundary) lines.push(boundary);
-    if (place?.quantum) lines.push(`quantum picture: ${place.quantum.name}${place.quantum.uncertain ? " (near a debated edge)" : ""} (${place.quantum.source})`);
+    // "quantum picture: 120-degree order", not "... order (quantum)": the label says it already.
+    if (place?.quantum) lines.push(`quantum picture: ${place.quantum.name.replace(/ \(quantum\)$/, "")}${place.quantum.uncertain ? ", near a debated edge" : ""}; ${place.quantum.source}`);
     items.push({ title: "Family", lines });
   }
   const res = p.resonance;
