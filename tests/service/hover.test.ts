@@ -143,6 +143,12 @@ describe("hover on the field and the symmetry claim: predictions and computed sy
     expect(dm).toMatch(/q = 0 resonance is not protected because H0 is not SU\(2\)-symmetric/);
   });
 
+  it("the method a splitting line quotes is not listed again under it", () => {
+    const md = hoverAt(HEISENBERG);
+    expect(md).toMatch(/splitting [0-9.]+ meV = [0-9.]+ h \[leading-order field theory/);
+    expect(md).not.toMatch(/\n  - leading-order field theory/);
+  });
+
   it("an alternative method under a prediction is a nested list item", () => {
     const md = hoverAt(HEISENBERG.replace("0.5 T", "6 T"));
     // Each line of the predictions is a list item; a method listed under the line before it is nested.

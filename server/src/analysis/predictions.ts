@@ -276,7 +276,7 @@ export function predict(model: SpinModel, physics: Omit<PhysicsSummary, "predict
   if (h >= sat.hSat * J) magnetization = { value: 0.5, method: "saturated: the field exceeds the saturation field", valid: true, reason: null };
   else if (xxzBethe) {
     const r = betheMagnetization(c.delta, hJ);
-    magnetization = { value: r.m, method: `Bethe ansatz, dressed-energy equation (Griffiths 1964), ${r.method}`, valid: r.converged, reason: r.converged ? null : "quadrature not converged" };
+    magnetization = { value: r.m, method: `Bethe ansatz, dressed-energy equation (Griffiths 1964), ${r.method === "bethe-ansatz nystrom" ? "solved by Gauss-Legendre (Nystrom) quadrature" : r.method}`, valid: r.converged, reason: r.converged ? null : "quadrature not converged" };
   } else if (exact) magnetization = { value: ringMagnetization(exact, h), method: `exact diagonalization, ${exact.sites}-site ring, level crossings E(Sz+1) - E(Sz), line through the step midpoints`, valid: true, reason: null };
   else magnetization = none("no closed form for this chain: run the exact check (--exact in the CLI, the exact-check lens in the editor) for m(h)", "unavailable");
   const m = magnetization.value;

@@ -20,7 +20,8 @@ export function predictionLines(p: Predictions, options: { sweep?: boolean } = {
   if (b.valid && b.splittingMeV !== null)
     out.push(`q = 0 branches: Larmor line at ${fmt(b.lowerAtZeroMeV ?? 0)} meV (all the weight), second branch at ${fmt(b.upperAtZeroMeV ?? 0)} meV; splitting ${fmt(b.splittingMeV)} meV = ${fmt(b.splittingOverZeeman ?? 0)} h [${b.method}]`);
   else out.push(`q = 0 branches: no splitting given: ${b.reason}`);
-  for (const alt of b.alternatives) out.push(`  ${alt.method}: ${alt.splittingMeV === null ? "n/a" : `${fmt(alt.splittingMeV)} meV`}${alt.valid ? "" : ` (outside its validity: ${alt.note})`}`);
+  // Other methods under the line; the one the line already quotes is not repeated.
+  for (const alt of b.alternatives) if (!(b.valid && b.splittingMeV !== null && b.method.startsWith(alt.method) && alt.splittingMeV === b.splittingMeV)) out.push(`  ${alt.method}: ${alt.splittingMeV === null ? "n/a" : `${fmt(alt.splittingMeV)} meV`}${alt.valid ? "" : ` (outside its validity: ${alt.note})`}`);
   const n = p.nearSaturation;
   out.push(n.valid && n.upperAtZeroMeV !== null ? `near saturation: bound-state branch at ${fmt(n.upperAtZeroMeV)} meV at q = 0 [${n.method}]; ${n.weight}` : `near saturation: ${n.reason}`);
   const d = p.dmDoublet;
