@@ -138,6 +138,16 @@ describe("parseSpw", () => {
   });
 });
 
+describe("a name left out", () => {
+  it("is named by what it is where it is missing", () => {
+    const message = (line: string) => parseSpw(`model "m" {\n  ${line}\n}\n`).diagnostics.find((d) => d.code === "spw-syntax")?.message;
+    expect(message("exchange heisenberg(J) on Cu ->")).toBe("Expected a site name (a bond reads Cu -> Cu + (1), or shell 1) here, found '}'.");
+    expect(message("let = 1 meV")).toBe("Expected a parameter name (let J1 = 1 meV) here, found '='.");
+    expect(message("exchange heisenberg(J) on -> Cu + (1)")).toBe("Expected 'shell' or a site name here, found '->'.");
+    expect(message("expect")).toBe("Expected a symmetry (su2, u1 about (x, y, z), or none) here, found '}'.");
+  });
+});
+
 describe("a misspelt statement keyword", () => {
   it("is named with the keyword it resembles; a stray word like no keyword is not", () => {
     const message = (line: string) => parseSpw(`model "m" {\n  ${line}\n}\n`).diagnostics.find((d) => d.code === "spw-syntax")?.message;

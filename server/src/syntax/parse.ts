@@ -86,6 +86,8 @@ interface TypedRef extends TokenRef {
 /** A grammar error inside a piece; `token` null when the piece ended where more was expected. */
 interface PieceSyntaxError {
   readonly raw: string;
+  /** The grammar rule the error happened in (e.g. "bondSpec"), for naming what was expected. */
+  readonly rule: string | null;
   readonly token: TokenRef | null;
   readonly previous: TokenRef | null;
 }
@@ -158,6 +160,7 @@ function parsePiece(text: string): PieceResult {
     const p = (e as { previousToken?: IToken }).previousToken;
     return {
       raw: e.message,
+      rule: e.context?.ruleStack?.[e.context.ruleStack.length - 1] ?? null,
       token: atEnd ? null : { start: t.startOffset, end: (t.endOffset ?? t.startOffset) + 1, image: t.image, line: t.startLine ?? 1 },
       previous:
         p && Number.isFinite(p.startOffset) && !p.isInsertedInRecovery
@@ -722,7 +725,7 @@ class SpwParse implements ParsedFile {
   private pieceSyntaxDiagnostic(piece: Piece, e: PieceSyntaxError, follow: TokenRef | null): Diagnostic {
     const move = (t: TokenRef | null): TokenRef | null => (t ? { start: t.start + piece.start, end: t.end + piece.start, image: t.image, line: t.line + piece.line - 1 } : null);
     const found = e.token ? move(e.token) : follow;
-    return diag("spw-syntax", missingSpan(found, move(e.previous), this.text.length), syntaxMessage(e.raw, foundText(found)));
+    return diag("spw-syntax", missingSpan(found, move(e.previous), this.text.length), syntaxMessage(e.raw, foundText(found), e.rule));
   }
 
   private modelBlock(b: BlockLayout, syntax: Diagnostic[]): ModelBlock {
@@ -844,9 +847,23 @@ class SpwParse implements ParsedFile {
   }
 }
 
+/** What a name is, where the grammar expects one: said in the message instead of "a name". */
+const NAME_IN_RULE: Readonly<Record<string, string>> = {
+  bondSpec: "a site name (a bond reads Cu -> Cu + (1), or shell 1)",
+  siteSelector: "a site name (or all)",
+  gStmt: "a site name (g Cu = 2.06)",
+  letStmt: "a parameter name (let J1 = 1 meV)",
+  exchangeStmt: "an exchange kind (heisenberg, xxz, xyz, dm, matrix)",
+  vectorStmt: "a name for the lattice vector (vector a1 = (1, 0, 0))",
+  siteStmt: "a site name (site A = (0, 0, 0))",
+  expectStmt: "a symmetry (su2, u1 about (x, y, z), or none)",
+  conventionStmt: "a convention (antiferro-positive or ferro-positive)",
+};
+
 /** Rewrites chevrotain's message into one sentence that says what was expected and found. */
-function syntaxMessage(raw: string, found: string): string {
+function syntaxMessage(raw: string, found: string, rule: string | null = null): string {
   const expecting = /Expecting (?:token of type )?--> (.*?) <--/.exec(raw);
+  if (expecting?.[1] === "a name" && rule && NAME_IN_RULE[rule]) return `Expected ${NAME_IN_RULE[rule]} here, found ${found}.`;
   if (expecting?.[1]) {
     if (expecting[1] === "'='" && found === "'('")
       return "Function definitions are not allowed: a parameter is a value, e.g. let J2 = 0.2 * J1.";
@@ -863,7 +880,9 @@ function syntaxMessage(raw: string, found: string): string {
     const unique = [...new Set(options)].slice(0, 8);
     if (unique.includes("a number") && unique.includes("a name"))
       return `Expected a value here (a number with its unit, a parameter name, or an expression in parentheses), found ${found}.`;
-    if (unique.length > 0) return `Expected ${unique.join(" or ")} here, found ${found}.`;
+    // Among alternatives, "a name" is named by what it is in this rule ("'shell' or a site name").
+    const noun = rule ? NAME_IN_RULE[rule]?.replace(/ \(.*$/, "") : undefined;
+    if (unique.length > 0) return `Expected ${unique.map((u) => (u === "a name" && noun ? noun : u)).join(" or ")} here, found ${found}.`;
   }
   return `${raw.replace(/\s+/g, " ").trim()}`;
 }
