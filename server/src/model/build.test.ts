@@ -172,6 +172,23 @@ describe("a bond given twice", () => {
   });
 });
 
+describe("a parameter named like a unit", () => {
+  it("is refused once, and its uses say why instead of asking for a number before the unit", () => {
+    const text = `model "m" {\n convention antiferro-positive\n lattice chain sites A\n let K = -8 meV\n let J = 0.5 * K\n exchange heisenberg(J) on shell 1\n}`;
+    const a = analyzeDocument(text);
+    expect(a.diagnostics.map((d) => [d.code, text.slice(d.span.start, d.span.end)])).toEqual([
+      ["spw-name-is-unit", "K"],
+      ["spw-name-unknown", "K"],
+    ]);
+    expect(a.diagnostics[1]?.message).toBe("'K' is a unit, so `let K = ...` defines no parameter: rename it there and here, e.g. K1.");
+    // Renaming only the let leaves the use unknown, with the plain message (the kept evaluation is not replayed).
+    const renamed = text.replace("let K = -8 meV", "let K1 = -8 meV");
+    const incremental = analyzeDocument(renamed, { previous: a });
+    expect(incremental.diagnostics.map((d) => d.message)).toEqual(analyzeDocument(renamed).diagnostics.map((d) => d.message));
+    expect(incremental.diagnostics.map((d) => d.message)).toEqual(["Unknown name 'K'. A unit follows a number: write 1 K."]);
+  });
+});
+
 describe("an unknown unit", () => {
   const message = (value: string) =>
     analyzeDocument(`model "m" {\n convention antiferro-positive\n lattice chain sites A\n let J = ${value}\n}`).diagnostics.find((d) => d.code === "spw-unit-unknown")?.message;

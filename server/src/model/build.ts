@@ -280,6 +280,8 @@ class ModelBuilder {
    * `params` (so that the list keeps its order) but evaluated again before anything reads them.
    */
   private readonly stale = new Set<string>();
+  /** Names of `let` statements refused because they are units (`let K = ...`). */
+  private readonly unitNamed = new Set<string>();
   /** Names in a dependency cycle found in this build. */
   private readonly cyclic = new Set<string>();
   /** The definition occurrences pushed by collectParameters, in order. */
@@ -412,6 +414,7 @@ class ModelBuilder {
     for (const s of this.statementsOf("let")) {
       const name = s.name.name;
       if (UNIT_WORDS.has(name)) {
+        this.unitNamed.add(name);
         this.report(
           diag("spw-name-is-unit", s.name.span, `'${name}' is a unit; name the parameter differently, e.g. ${name}1 or ${name}_ex.`),
         );
@@ -568,7 +571,18 @@ class ModelBuilder {
 
   /** How expressions reach parameters, diagnostics and the symbol list (one for the whole build). */
   private readonly evalContext: EvalContext = {
-    lookup: (name) => {
+    lookup: (name, span) => {
+      if (this.unitNamed.has(name) && !this.paramStatements.has(name)) {
+        // `let K = -8 meV` was refused (K is the kelvin): say so where K is used, not "write 1 K".
+        this.evalContext.report(
+          diag("spw-name-unknown", span, `'${name}' is a unit, so \`let ${name} = ...\` defines no parameter: rename it there and here, e.g. ${name}1.`, {
+            data: { name, suggestions: [`${name}1`] },
+          }),
+        );
+        // Recorded as a read of no value, so that a kept evaluation is not replayed once the let is renamed.
+        this.recording[this.recording.length - 1]?.push({ kind: "lookup", name, value: null });
+        return null;
+      }
       const value = this.paramStatements.has(name) ? (this.parameter(name)?.value ?? null) : undefined;
       this.recording[this.recording.length - 1]?.push({ kind: "lookup", name, value });
       return value;
