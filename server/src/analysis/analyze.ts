@@ -39,7 +39,7 @@ export function analyzeDocument(text: string, options: DocumentOptions = {}): Do
   const parsed = parseSpw(text, options.previous?.parsed);
   const memo: AnalysisMemo = options.previous?.memo ?? { build: new BuildMemo(), physics: new PhysicsMemo() };
   const built = buildModel(parsed.ast, text, memo.build);
-  const diagnostics: Diagnostic[] = [...parsed.diagnostics, ...built.diagnostics];
+  const diagnostics: Diagnostic[] = [...parsed.diagnostics, ...withoutEchoes(built.diagnostics, parsed.diagnostics)];
   let physics: PhysicsSummary | null = null;
   if (built.model) {
     const result = analyzePhysicsKept(built.model, options, memo.physics);
@@ -49,3 +49,17 @@ export function analyzeDocument(text: string, options: DocumentOptions = {}): Do
   diagnostics.sort((a, b) => a.span.start - b.span.start || a.span.end - b.span.end);
   return { text, lines: new LineIndex(text), parsed, model: built.model, physics, diagnostics, memo };
 }
+
+/**
+ * Model errors that start where a syntax error does: the parser's recovery made what the model
+ * then refuses (`site A at (0, 0, 0)` reads as `site A = at(0, 0, 0)` after the missing '='), so
+ * the syntax error says it first and alone.
+ */
+function withoutEchoes(model: readonly Diagnostic[], syntax: readonly Diagnostic[]): readonly Diagnostic[] {
+  if (syntax.length === 0) return model;
+  const at = new Set(syntax.filter((d) => d.severity === "error").map((d) => d.span.start));
+  return model.filter((d) => !(ECHO_CODES.has(d.code) && at.has(d.span.start)));
+}
+
+/** Errors about a value, which a recovered parse can make up; block-level ones (no model) stay. */
+const ECHO_CODES: ReadonlySet<string> = new Set(["spw-expr-forbidden", "spw-name-unknown", "spw-value-kind", "spw-unit-missing", "spw-unit-mismatch", "spw-unit-unknown"]);
