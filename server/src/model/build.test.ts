@@ -172,6 +172,15 @@ describe("a bond given twice", () => {
   });
 });
 
+describe("an unknown site", () => {
+  it("names every site that is as near as the nearest, not only the first", () => {
+    const message = (bond: string) =>
+      analyzeDocument(`model "m" {\n convention antiferro-positive\n lattice ladder sites Cu1, Cu2\n exchange heisenberg(1 meV) on ${bond}\n}`).diagnostics.find((d) => d.code === "spw-site-unknown")?.message;
+    expect(message("Cu1 -> Cu3")).toBe("Unknown site 'Cu3'. The lattice has Cu1, Cu2; did you mean Cu1 or Cu2?");
+    expect(message("Cu1 -> cu2")).toBe("Unknown site 'cu2'. The lattice has Cu1, Cu2; did you mean Cu2?");
+  });
+});
+
 describe("a parameter named like a unit", () => {
   it("is refused once, and its uses say why instead of asking for a number before the unit", () => {
     const text = `model "m" {\n convention antiferro-positive\n lattice chain sites A\n let K = -8 meV\n let J = 0.5 * K\n exchange heisenberg(J) on shell 1\n}`;

@@ -1,7 +1,7 @@
 // Builds the semantic model from the AST: resolves parameters (with cycle detection), evaluates
 // values with units, constructs the lattice, expands bonds, and reports every problem with a
 // stable code, a range and a suggested fix. Never throws. Model layer.
-import { closest } from "../base/words";
+import { closest, nearest } from "../base/words";
 import { diag, type Diagnostic } from "../base/diagnostics";
 import type { Span } from "../base/text";
 import {
@@ -945,7 +945,7 @@ class ModelBuilder {
         diag(
           "spw-site-unknown",
           ref.span,
-          `Unknown site '${ref.name}'. The lattice has ${known.length ? known.join(", ") : "no sites"}${suggestion.length ? `; did you mean ${suggestion[0]}?` : "."}`,
+          `Unknown site '${ref.name}'. The lattice has ${known.length ? known.join(", ") : "no sites"}${suggestion.length ? `; did you mean ${nearest(ref.name, known).slice(0, 3).join(" or ")}?` : "."}`,
           { data: { name: ref.name, suggestions: suggestion } },
         ),
       );
