@@ -10,7 +10,7 @@ import { diag, type Diagnostic } from "../base/diagnostics";
 import type { Span } from "../base/text";
 import { copyStatement, forEachSpan, shiftSpan, type ModelBlock, type NameRef, type SpwFile, type Statement } from "./ast";
 import { Identifier, Kw, LBrace, NumberLiteral, RBrace, STATEMENT_KEYWORDS, StringLiteral } from "./lexer";
-import { LATTICE_ENTRIES, lowerPiece } from "./lower";
+import { lowerPiece } from "./lower";
 import { spwParser, STATEMENT_STARTS } from "./parser";
 import { COMMENT, END, ERROR, Scanner, scanText, SpwToken, type ScanResult } from "./scanner";
 
@@ -339,7 +339,10 @@ class SpwParse implements ParsedFile {
       for (const d of result.diagnostics) (d.code === "spw-character" ? lexical : stray).push(shiftDiagnostic(d, piece.start));
       if (result.syntaxErrors.length > 0) {
         const follow = this.firstToken(i + 1);
-        for (const e of result.syntaxErrors) syntax.push(this.pieceSyntaxDiagnostic(piece, e, follow));
+        for (const e of result.syntaxErrors) {
+          const d = this.pieceSyntaxDiagnostic(piece, e, follow);
+          if (d) syntax.push(d);
+        }
       }
     }
     // Keep the cache to about the pieces in use (texts of older versions pile up while typing).
@@ -722,9 +725,11 @@ class SpwParse implements ParsedFile {
     if (!b.brace && name) out.push(diag("spw-syntax", missingSpan(stop, previous, length), `Expected '{' here, found ${foundText(stop)}.`));
   }
 
-  private pieceSyntaxDiagnostic(piece: Piece, e: PieceSyntaxError, follow: TokenRef | null): Diagnostic {
+  /** The diagnostic of a grammar error; null when the stray-token report says it already (see latticeEntryError). */
+  private pieceSyntaxDiagnostic(piece: Piece, e: PieceSyntaxError, follow: TokenRef | null): Diagnostic | null {
     const move = (t: TokenRef | null): TokenRef | null => (t ? { start: t.start + piece.start, end: t.end + piece.start, image: t.image, line: t.line + piece.line - 1 } : null);
     const found = e.token ? move(e.token) : follow;
+    if (latticeEntryError(e.raw, foundText(found))) return null;
     return diag("spw-syntax", missingSpan(found, move(e.previous), this.text.length), syntaxMessage(e.raw, foundText(found), e.rule));
   }
 
@@ -847,6 +852,17 @@ class SpwParse implements ParsedFile {
   }
 }
 
+/**
+ * A '}' expected inside a custom lattice, found before anything but the next statement or the end:
+ * an entry is malformed, and the stray-token report names it, line by line, with what an entry
+ * looks like; the parser's own "Expected '}'" would say less, at the same place.
+ */
+function latticeEntryError(raw: string, found: string): boolean {
+  if (!/Expecting (?:token of type )?--> '\}' <--/.test(raw)) return false;
+  const word = /^'(\w+)'$/.exec(found)?.[1];
+  return found !== "the end of the file" && !(word !== undefined && (STATEMENT_KEYWORDS as readonly string[]).includes(word));
+}
+
 /** What a name is, where the grammar expects one: said in the message instead of "a name". */
 const NAME_IN_RULE: Readonly<Record<string, string>> = {
   bondSpec: "a site name (a bond reads Cu -> Cu + (1), or shell 1)",
@@ -868,10 +884,8 @@ function syntaxMessage(raw: string, found: string, rule: string | null = null): 
     if (expecting[1] === "'='" && found === "'('")
       return "Function definitions are not allowed: a parameter is a value, e.g. let J2 = 0.2 * J1.";
     // Inside a statement piece the only '}' the grammar expects closes a custom lattice: before
-    // the next statement it was left open; before anything else an entry is malformed.
-    const word = /^'(\w+)'$/.exec(found)?.[1];
-    const nextStatement = found === "the end of the file" || (word !== undefined && (STATEMENT_KEYWORDS as readonly string[]).includes(word));
-    const hint = expecting[1] !== "'}'" ? "" : nextStatement ? " Close the lattice block with '}'." : ` ${LATTICE_ENTRIES}`;
+    // the next statement it was left open (a malformed entry is reported with the stray tokens).
+    const hint = expecting[1] === "'}'" ? " Close the lattice block with '}'." : "";
     return `Expected ${expecting[1]} here, found ${found}.${hint}`;
   }
   const oneOf = /Expecting: (?:one of these possible Token sequences:|expecting at least one iteration which starts with one of these possible Token sequences::)?\s*([\s\S]*?)\s*but found:/.exec(raw);
