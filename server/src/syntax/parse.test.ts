@@ -146,6 +146,8 @@ describe("a name left out", () => {
     expect(message("exchange heisenberg(J) on Cu ->")).toBe("Expected a site name (a bond reads Cu -> Cu + (1), or shell 1) here, found '}'.");
     expect(message("let = 1 meV")).toBe("Expected a parameter name (let J1 = 1 meV) here, found '='.");
     expect(message("exchange heisenberg(J) on -> Cu + (1)")).toBe("Expected 'shell' or a site name here, found '->'.");
+    // Alone: the tokens the recovery skipped from there are not reported again as strays.
+    expect(parseSpw('model "m" {\n  exchange heisenberg(J) on -> Cu + (1)\n}\n').diagnostics).toHaveLength(1);
     expect(message("expect")).toBe("Expected a symmetry (su2, u1 about (x, y, z), or none) here, found '}'.");
   });
 });

@@ -353,7 +353,10 @@ class SpwParse implements ParsedFile {
     const models: ModelBlock[] = this.blocks.map((b) => this.modelBlock(b, syntax));
     stray.push(...this.topLevelStrays());
     this.ast = { models, span: { start: 0, end: text.length } };
-    this.diagnostics = [...lexical, ...syntax, ...stray];
+    // Stray tokens that start where a grammar error does are what the parser's recovery skipped
+    // there: the grammar error ("Expected 'shell' or a site name here, found '->'") says it.
+    const errorAt = syntax.length > 0 ? new Set(syntax.map((d) => d.span.start)) : null;
+    this.diagnostics = [...lexical, ...syntax, ...(errorAt ? stray.filter((d) => d.code !== "spw-syntax" || !errorAt.has(d.span.start)) : stray)];
   }
 
   /** True while no newer parse of the same document has taken over (and moved) this one's pieces. */
