@@ -5,9 +5,7 @@ import { buildFiniteCluster } from "../model/cluster";
 import { bondKeyOf } from "../model/lattice";
 import type { ExchangeTerm, SpinModel } from "../model/model";
 import { shortestCycles, type CycleEdge } from "../physics/cycles";
-import { cross3, dot3, normalize3 } from "../physics/linalg3";
 import { decomposeExchange } from "../physics/symmetry";
-import type { Vec3 } from "../physics/types";
 import { termLabel } from "./couplings";
 
 export interface FrustrationGroup {
@@ -125,7 +123,7 @@ function computeFrustration(model: SpinModel): FrustrationGroup[] {
   const side = Math.max(L.dimension === 1 ? 12 : L.dimension === 2 ? 6 : 4, 4 * longest + 1);
   const built = buildFiniteCluster(model, new Array<number>(L.dimension).fill(side));
   if (!built.ok || built.value.cluster.spins.length > 20000) return [];
-  const { cluster, bondTerms } = built.value;
+  const { cluster, bondTerms, labels } = built.value;
   // Sum the isotropic parts per site pair: a pair is one bond of the graph.
   const pairs = new Map<string, { a: number; b: number; j: number; terms: Set<number> }>();
   cluster.bonds.forEach((bond, k) => {
@@ -148,11 +146,11 @@ function computeFrustration(model: SpinModel): FrustrationGroup[] {
   }
   const result = shortestCycles({ vertexCount: cluster.spins.length, edges }, { maxCycles: 2000, maxWork: 5e6 });
   const groups = new Map<string, { couplings: string[]; length: number; frustrated: boolean | null; count: number; terms: Set<number> }>();
-  const frac = fractional(cluster.positions, L.vectors);
+  const cellOf = labels.map((l) => l.cell);
   for (const c of result.cycles) {
     // Cycles that wind around the periodic cluster are artefacts of its size, not lattice loops
     // (e.g. the second-neighbour bonds alone of a chain, closed into a ring by the cluster).
-    if (c.vertices.length > 8 || winds(c.vertices, frac, side)) continue;
+    if (c.vertices.length > 8 || winds(c.vertices, cellOf, side)) continue;
     const terms = c.edgeIds.flatMap((id) => edgeTerms.get(id) ?? []);
     // A bond several terms sum on reads "(J1 + dm #3)", so that "-" only ever separates bonds.
     const names = c.edgeIds.map((id) => bondLabel(model, edgeTerms.get(id) ?? [])).sort();
@@ -175,39 +173,20 @@ function computeFrustration(model: SpinModel): FrustrationGroup[] {
 }
 
 /**
- * Fractional coordinates of points along the lattice vectors (1 to 3 of them, completed to a basis
- * with unit normals for the inverse; only the lattice components are returned).
+ * Whether a cycle of the periodic cluster (side cells along each lattice vector) winds around it,
+ * from the cells of its sites: each step's change of cell taken as its shortest image (bonds span
+ * fewer than side / 2 cells), the steps of a lattice loop add up to zero and those of a winding
+ * cycle to a multiple of the side.
  */
-function fractional(points: readonly Vec3[], vectors: readonly Vec3[]): number[][] {
-  const basis: Vec3[] = [...vectors];
-  if (basis.length === 1) {
-    const a = basis[0] as Vec3;
-    const other: Vec3 = Math.abs(a[0]) <= Math.abs(a[1]) && Math.abs(a[0]) <= Math.abs(a[2]) ? [1, 0, 0] : Math.abs(a[1]) <= Math.abs(a[2]) ? [0, 1, 0] : [0, 0, 1];
-    const n1 = normalize3(cross3(a, other)) as Vec3;
-    basis.push(n1, normalize3(cross3(a, n1)) as Vec3);
-  } else if (basis.length === 2) basis.push(normalize3(cross3(basis[0] as Vec3, basis[1] as Vec3)) as Vec3);
-  const [a, b, c] = basis as [Vec3, Vec3, Vec3];
-  const ra = cross3(b, c);
-  const rb = cross3(c, a);
-  const rc = cross3(a, b);
-  const det = dot3(a, ra);
-  return points.map((p) => [dot3(ra, p) / det, dot3(rb, p) / det, dot3(rc, p) / det].slice(0, vectors.length));
-}
-
-/**
- * Whether a cycle of the periodic cluster (side cells along each lattice vector) winds around it:
- * each step taken as its shortest image (bonds span fewer than side / 2 cells), the steps of a
- * lattice loop add up to zero and those of a winding cycle to a multiple of the side.
- */
-function winds(vertices: readonly number[], frac: readonly (readonly number[])[], side: number): boolean {
-  const dim = frac[0]?.length ?? 0;
+function winds(vertices: readonly number[], cellOf: readonly (readonly number[])[], side: number): boolean {
+  const dim = cellOf[0]?.length ?? 0;
   for (let d = 0; d < dim; d++) {
     let sum = 0;
     for (let k = 0; k < vertices.length; k++) {
-      const x = (frac[vertices[(k + 1) % vertices.length] as number]?.[d] ?? 0) - (frac[vertices[k] as number]?.[d] ?? 0);
+      const x = (cellOf[vertices[(k + 1) % vertices.length] as number]?.[d] ?? 0) - (cellOf[vertices[k] as number]?.[d] ?? 0);
       sum += x - side * Math.round(x / side);
     }
-    if (Math.abs(sum) > 1e-6) return true;
+    if (sum !== 0) return true;
   }
   return false;
 }

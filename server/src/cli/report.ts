@@ -8,7 +8,7 @@ import { formatText } from "./format";
 import { describeClass } from "../analysis/symmetryCheck";
 import { MEV_PER_CM } from "../model/units";
 import { predictionLines } from "../service/predictionsView";
-import { boundaryText } from "../service/physicsView";
+import { boundaryText, quantumPictureText } from "../service/physicsView";
 import { parameterValueText } from "../service/quantities";
 
 /** The shared number format, with one argument: `list.map(fmt)` must not pass the index as the digit count. */
@@ -89,7 +89,7 @@ function physicsLines(a: DocumentAnalysis): string[] {
     out.push(`family: ${p.family.description}; region: ${r.name} at ${r.parameter} = ${fmt(r.value)}`);
     const boundary = boundaryText(r);
     if (boundary) out.push(`  ${boundary}`);
-    if (r.quantum) out.push(`  quantum picture: ${r.quantum.name.replace(/ \(quantum\)$/, "")}; ${r.quantum.source}`);
+    if (r.quantum) out.push(`  ${quantumPictureText(r.quantum, false)}`);
   } else out.push(`family: ${p.family.description}`);
   const z = p.resonance;
   if (z.zeemanMeV !== null && z.hasField)

@@ -17,9 +17,9 @@ process.on("unhandledRejection", (reason) => {
 // 66 KiB by default in Node 20). Most analysis steps run once per keystroke and are short, so with
 // the default they stay in the baseline tier for thousands of keystrokes; a long-lived server that
 // answers each keystroke does better when they are optimised after a few hundred. Measured with
-// `npm run bench -- editor` (200-line model, digit typed, ratio to the JSON reference): 1.25-1.33
-// with the default, 1.01-1.11 with 8 KiB; lower budgets gave no further gain. A budget given to
-// node by the user (command line or NODE_OPTIONS) is left alone.
+// `npm run bench -- editor` (200-line model, digit typed, ratio to the JSON reference): 1.25-1.39
+// with the default, 1.03-1.21 with 8 KiB over seven runs; 2 and 4 KiB gave no further gain. A
+// budget given to node by the user (command line or NODE_OPTIONS) is left alone.
 const given = [...process.execArgv, process.env["NODE_OPTIONS"] ?? ""].some((a) => a.includes("interrupt-budget"));
 if (!given) setFlagsFromString(`--interrupt-budget=${8 * 1024}`);
 

@@ -1062,7 +1062,7 @@ class ModelBuilder {
           "spw-kind-unknown",
           s.exchangeKind.span,
           `'${kindName}' is a parameter, not an exchange kind: write exchange heisenberg(${kindName}) for an isotropic coupling, or another kind with ${kindName} as its first argument.`,
-          { data: { name: kindName, suggestions: [`heisenberg(${kindName})`], wrap: true } },
+          { data: { name: kindName, suggestions: [`heisenberg(${kindName})`] } },
         ),
       );
       return null;

@@ -78,7 +78,8 @@ function fixesFor(a: DocumentAnalysis, d: Diagnostic): CodeAction[] {
       const s = statementCovering(a, d.span);
       const call = a.text.slice(d.span.start, d.span.end);
       if (data["tuple"] !== true || s?.kind !== "g" || !call.startsWith("diag")) return [];
-      return [action(d, `Write the diagonal g-tensor as ${call.slice(4).trim()}`, [{ span: d.span, newText: call.slice(4).trim() }], true)];
+      const tuple = call.slice("diag".length).trim();
+      return [action(d, `Write the diagonal g-tensor as ${tuple}`, [{ span: d.span, newText: tuple }], true)];
     }
     case "spw-term-zero": {
       const s = statementCovering(a, d.span);

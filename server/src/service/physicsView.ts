@@ -69,8 +69,7 @@ export function physicsItems(a: DocumentAnalysis): PhysicsItem[] {
     if (place) lines.push(`${place.parameter} = ${formatNumber(place.value)}: ${place.name}${place.source ? ` (${place.source})` : ""}`);
     const boundary = place ? boundaryText(place) : null;
     if (boundary) lines.push(boundary);
-    // "quantum picture: 120-degree order", not "... order (quantum)": the label says it already.
-    if (place?.quantum) lines.push(`quantum picture: ${place.quantum.name.replace(/ \(quantum\)$/, "")}${place.quantum.uncertain ? ", near a debated edge" : ""}; ${place.quantum.source}`);
+    if (place?.quantum) lines.push(quantumPictureText(place.quantum, true));
     items.push({ title: "Family", lines });
   }
   const res = p.resonance;
@@ -91,6 +90,14 @@ export function physicsItems(a: DocumentAnalysis): PhysicsItem[] {
 }
 
 /** The nearest phase boundary of a placement and how far the couplings are from it, or null. */
+/**
+ * "quantum picture: 120-degree order; <source>" (not "... order (quantum)": the label says it
+ * already), with "near a debated edge" where the placement says so and `withEdge` asks for it.
+ */
+export function quantumPictureText(q: NonNullable<RegionPlacement["quantum"]>, withEdge: boolean): string {
+  return `quantum picture: ${q.name.replace(/ \(quantum\)$/, "")}${withEdge && q.uncertain ? ", near a debated edge" : ""}; ${q.source}`;
+}
+
 export function boundaryText(place: RegionPlacement): string | null {
   const b = place.boundary;
   if (!b) return null;

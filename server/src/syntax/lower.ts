@@ -449,8 +449,7 @@ export function lowerPiece(cst: CstNode, text: string): { statements: Statement[
 const STATEMENT_WORDS = STATEMENT_KEYWORDS.join(", ");
 
 /** What the braces of a custom lattice hold, for messages about what they should not. */
-export const LATTICE_ENTRIES = "A custom lattice holds one entry per line: `vector a1 = (1, 0, 0)` or `site A = (0, 0, 0)` (optionally `spin 1`).";
-
+const LATTICE_ENTRIES = "A custom lattice holds one entry per line: `vector a1 = (1, 0, 0)` or `site A = (0, 0, 0)` (optionally `spin 1`).";
 
 /** "did you mean 'field'? A statement" when the stray text starts with a misspelt statement keyword (three letters or more), else "a statement". */
 function keywordGuess(found: string): string {

@@ -399,7 +399,8 @@ class SpwParse implements ParsedFile {
    * Reads the block structure and cuts the text into pieces: `model`, a quoted name, `{`, the
    * statements, `}`. Inside a block a piece starts at every statement keyword, except `spin`
    * inside the braces of a custom lattice (`site A = (0, 0, 0) spin 1`, also after a stray name,
-   * `lattice custom {`), where only `}` or another statement keyword ends the lattice. A '}' followed by more code on its own line is a stray
+   * `lattice custom {`), where only `}` or another statement keyword ends the lattice. A '}'
+   * followed by more code on its own line is a stray
    * (`exchange }heisenberg(J)`), not the end of the block. What is missing is reported, and
    * reading goes on as if it were there. After an edit, reading starts at `resume` and stops where
    * a piece starts at the place of an old piece, after the edit, in the same state: from there on
